@@ -1,0 +1,162 @@
+#!/usr/bin/env node
+/**
+ * cli.ts: commander wiring only. Every command calls the library API (index.ts); this file parses
+ * options, prints results, and is the only place that prints errors and sets the exit code.
+ */
+import { realpathSync } from "node:fs";
+import { fileURLToPath } from "node:url";
+import { Command, CommanderError, InvalidArgumentError, Option } from "commander";
+import { parseDecision } from "./advice/overrides.js";
+import { removePendingTemps } from "./commands/output.js";
+import { progressEnabled, startProgress } from "./commands/progress.js";
+import { runReport, runScan, type ScanCliOptions } from "./commands/scanCli.js";
+import { toolVersion } from "./commands/scan.js";
+import type { Engine } from "./engine/db.js";
+import { isTailsiftError } from "./errors.js";
+import type { Encoding } from "./profile/types.js";
+
+export interface CliIO {
+  stdout: (text: string) => void;
+  stderr: (text: string) => void;
+  /** Receives the running engine so a signal can interrupt it. */
+  onEngine?: (engine: Engine | null) => void;
+}
+
+const integer = (name: string) => (value: string) => {
+  if (!/^-?\d+$/.test(value)) throw new InvalidArgumentError(`${name} must be an integer`);
+  return Number(value);
+};
+const fraction = (name: string) => (value: string) => {
+  const x = Number(value);
+  if (!Number.isFinite(x)) throw new InvalidArgumentError(`${name} must be a number`);
+  return x;
+};
+const list = (value: string, previous: string[] = []) => [...previous, ...value.split(",").map((s) => s.trim()).filter((s) => s !== "")];
+const decisions = (value: string, previous: Record<string, Encoding> = {}) => {
+  const [column, encoding] = parseDecision(value);
+  return { ...previous, [column]: encoding };
+};
+
+function engineOptions(cmd: Command): Command {
+  return cmd
+    .option("--memory-limit <size>", "DuckDB memory limit, e.g. 2GB (default: 60% of RAM, at most 16GB)")
+    .option("--threads <n>", "DuckDB threads (default: all cores)", integer("--threads"))
+    .option("--temp-dir <dir>", "folder DuckDB spills to when memory runs short (default: the OS temp folder)")
+    .option("--quiet", "print nothing but results and errors")
+    .option("--no-progress", "no progress bar (it only shows when stderr is a terminal)")
+    .option("--debug", "print the stack trace of an error");
+}
+
+function sourceOptions(cmd: Command): Command {
+  return cmd
+    .option("--skip-bad-rows", "skip rows that do not parse (ragged rows) instead of stopping")
+    .option("--encoding <name>", "text encoding of CSV input: utf-8, latin-1 or utf-16")
+    .option("--delimiter <char>", "CSV delimiter (default: detected; tab for .tsv)");
+}
+
+export function buildProgram(io: CliIO): Command {
+  const program = new Command();
+  program
+    .name("tailsift")
+    .description("Measure every categorical column of a large extract in one pass, recommend an encoding with the numbers behind it, apply it leak-free and check newer extracts against the record.")
+    .version(toolVersion(), "-V, --version")
+    .showHelpAfterError("(run with --help for usage)")
+    .configureOutput({ writeOut: io.stdout, writeErr: io.stderr })
+    .exitOverride();
+
+  const scan = program.command("scan")
+    .description("profile every categorical column, recommend an encoding, print; --out DIR writes profile.json, decisions.md, report.html and levels.parquet")
+    .argument("<inputs...>", "files (.csv, .tsv, .csv.gz, .parquet, .jsonl), globs or folders of Parquet")
+    .option("--target <column>", "target column (binary or continuous)")
+    .option("--positive <value>", "the target value that counts as positive (binary)")
+    .addOption(new Option("--target-kind <kind>", "force the target kind").choices(["binary", "continuous"]))
+    .option("--columns <names>", "profile only these columns (comma-separated, repeatable)", list)
+    .option("--exclude <names>", "leave these columns out (comma-separated, repeatable)", list)
+    .option("--as-categorical <names>", "profile these numeric-looking columns as levels", list)
+    .option("--folds <k>", "folds for out-of-fold figures", integer("--folds"), 5)
+    .option("--seed <n>", "seed of the fold assignment", integer("--seed"), 42)
+    .option("--top <n>", "top levels listed per column", integer("--top"), 20)
+    .option("--max-one-hot <n>", "widest one-hot block advised", integer("--max-one-hot"), 16)
+    .option("--min-level-rows <n>", "rows a level needs for its own column", integer("--min-level-rows"), 30)
+    .option("--coverage <share>", "row share pooled one-hot must cover", fraction("--coverage"), 0.95)
+    .option("--collision-budget <share>", "largest colliding row share for hashing", fraction("--collision-budget"), 0.01)
+    .option("--decide <column=encoding>", "override the advice for a column (repeatable)", decisions)
+    .addOption(new Option("--format <format>", "output format").choices(["table", "json", "markdown"]).default("table"))
+    .option("--out <dir>", "write profile.json, decisions.md, report.html and levels.parquet to this folder");
+  engineOptions(sourceOptions(scan)).action(async (inputs: string[], opts: ScanCliOptions) => {
+    const progress = startProgress("scanning", progressEnabled(opts));
+    try {
+      await runScan(inputs, opts, io, (e) => { progress.attach(e); io.onEngine?.(e); });
+    } finally {
+      progress.stop();
+    }
+  });
+
+  program.command("report")
+    .description("render a saved profile.json again as report.html (and decisions.md beside it), without rescanning")
+    .argument("<profile>", "a profile.json written by scan --out")
+    .requiredOption("--out <file>", "the HTML file to write")
+    .option("--debug", "print the stack trace of an error")
+    .action(async (profilePath: string, opts: { out: string }) => runReport(profilePath, opts.out, io));
+
+  return program;
+}
+
+/** Runs the CLI and returns the exit code (never exits the process itself). */
+export async function runCli(argv: readonly string[], io: CliIO): Promise<number> {
+  const program = buildProgram(io);
+  try {
+    await program.parseAsync([...argv], { from: "user" });
+    return 0;
+  } catch (err) {
+    if (err instanceof CommanderError) {
+      if (err.code === "commander.helpDisplayed" || err.code === "commander.version" || err.code === "commander.help") return 0;
+      return err.exitCode === 0 ? 0 : 2;
+    }
+    const debug = argv.includes("--debug");
+    if (isTailsiftError(err)) {
+      io.stderr(`tailsift: ${err.message}\n`);
+      if (debug && err.stack) io.stderr(`${err.stack}\n`);
+      return err.exitCode;
+    }
+    io.stderr(`tailsift: unexpected error: ${err instanceof Error ? err.message.split("\n")[0] : String(err)} (run with --debug for details)\n`);
+    if (debug && err instanceof Error && err.stack) io.stderr(`${err.stack}\n`);
+    return 2;
+  }
+}
+
+function isMain(): boolean {
+  const entry = process.argv[1];
+  if (!entry) return false;
+  try {
+    return realpathSync(entry) === realpathSync(fileURLToPath(import.meta.url));
+  } catch {
+    return false;
+  }
+}
+
+if (isMain()) {
+  let engine: Engine | null = null;
+  let signalled: NodeJS.Signals | null = null;
+  const onSignal = (signal: NodeJS.Signals) => {
+    if (signalled) process.exit(signal === "SIGINT" ? 130 : 143);
+    signalled = signal;
+    if (engine) engine.interrupt();
+    else { removePendingTemps(); process.exit(signal === "SIGINT" ? 130 : 143); }
+  };
+  process.on("SIGINT", onSignal);
+  process.on("SIGTERM", onSignal);
+  const io: CliIO = {
+    stdout: (t) => process.stdout.write(t),
+    stderr: (t) => process.stderr.write(t),
+    onEngine: (e) => { engine = e; },
+  };
+  runCli(process.argv.slice(2), io).then((code) => {
+    removePendingTemps();
+    process.exitCode = signalled ? (signalled === "SIGINT" ? 130 : 143) : code;
+  }, (err: unknown) => {
+    process.stderr.write(`tailsift: ${String(err)}\n`);
+    process.exitCode = 2;
+  });
+}
+

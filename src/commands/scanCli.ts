@@ -1,0 +1,86 @@
+/**
+ * commands/scanCli: what `tailsift scan` and `tailsift report` do around the library calls —
+ * choose the output format, write the report folder atomically, print.
+ */
+import fs from "node:fs";
+import path from "node:path";
+import type { Engine } from "../engine/db.js";
+import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
+import { TailsiftError } from "../errors.js";
+import { validateProfile } from "../profile/schema.js";
+import type { Encoding, Profile } from "../profile/types.js";
+import { renderHtmlReport } from "../render/html.js";
+import { renderDecisionRecord } from "../render/markdown.js";
+import { renderTable } from "../render/table.js";
+import { ensureOutputDir, refuseInputAsOutput, writeFileAtomic } from "./output.js";
+import { scan } from "./scan.js";
+
+export interface ScanCliOptions {
+  target?: string; positive?: string; targetKind?: "binary" | "continuous";
+  columns?: string[]; exclude?: string[]; asCategorical?: string[];
+  folds: number; seed: number; top: number; maxOneHot: number; minLevelRows: number; coverage: number; collisionBudget: number;
+  decide?: Record<string, Encoding>;
+  format: "table" | "json" | "markdown";
+  out?: string;
+  memoryLimit?: string; threads?: number; tempDir?: string;
+  skipBadRows?: boolean; encoding?: string; delimiter?: string;
+  quiet?: boolean; progress?: boolean; debug?: boolean;
+}
+
+interface IO { stdout: (t: string) => void; stderr: (t: string) => void }
+
+export async function runScan(inputs: string[], o: ScanCliOptions, io: IO, onEngine: (e: Engine | null) => void): Promise<void> {
+  if (o.out) {
+    refuseInputAsOutput(o.out, inputs);
+    ensureOutputDir(o.out);
+  }
+  const profile = await scan(inputs, {
+    target: o.target, positive: o.positive, targetKind: o.targetKind,
+    columns: o.columns, exclude: o.exclude, asCategorical: o.asCategorical, top: o.top,
+    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget },
+    decide: o.decide,
+    memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
+    skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter,
+    levelTableOut: o.out ? path.join(o.out, LEVEL_FILE_NAME) : undefined,
+    onEngine,
+  });
+  if (o.out) await writeReportFolder(profile, o.out);
+  if (o.format === "json") io.stdout(`${JSON.stringify(profile, null, 2)}\n`);
+  else if (o.format === "markdown") io.stdout(renderDecisionRecord(profile));
+  else io.stdout(renderTable(profile));
+  if (o.out && !o.quiet) io.stderr(`wrote ${["profile.json", "decisions.md", "report.html", LEVEL_FILE_NAME].map((f) => path.join(o.out!, f)).join(", ")}\n`);
+}
+
+/** Writes profile.json, decisions.md and report.html, each atomically. */
+export async function writeReportFolder(profile: Profile, dir: string): Promise<void> {
+  validateProfile(profile);
+  const html = await renderHtmlReport(profile);
+  writeFileAtomic(path.join(dir, "profile.json"), `${JSON.stringify(profile, null, 2)}\n`);
+  writeFileAtomic(path.join(dir, "decisions.md"), renderDecisionRecord(profile));
+  writeFileAtomic(path.join(dir, "report.html"), html);
+}
+
+/** Reads and validates a saved profile.json. */
+export function readProfile(file: string): Profile {
+  let text: string;
+  try {
+    text = fs.readFileSync(file, "utf8");
+  } catch {
+    throw new TailsiftError("input_not_found", `profile '${file}' not found; give the profile.json written by scan --out`);
+  }
+  let data: unknown;
+  try {
+    data = JSON.parse(text);
+  } catch {
+    throw new TailsiftError("bad_profile", `'${file}' is not JSON; give the profile.json written by scan --out`);
+  }
+  return validateProfile(data, file);
+}
+
+export async function runReport(profilePath: string, out: string, io: IO): Promise<void> {
+  const profile = readProfile(profilePath);
+  refuseInputAsOutput(out, [profilePath]);
+  ensureOutputDir(path.dirname(path.resolve(out)));
+  writeFileAtomic(out, await renderHtmlReport(profile));
+  io.stderr(`wrote ${out}\n`);
+}

@@ -1,0 +1,94 @@
+/**
+ * engine/aggregate: the ONE pass over the raw rows. It builds the level table inside DuckDB,
+ *   tailsift_levels(col, level, fold, rows, n_y, sum_y, sum_y2)
+ * where col is the index of the column in the pass, level its text value (NULL = missing), fold
+ * the row's fold, rows the row count, n_y the rows with a usable target and sum_y / sum_y2 the
+ * target sums. Rows with col = -1 are the per-fold totals (all rows), which also carry the count
+ * of target values that did not fit the target kind and the non-missing count of numeric columns.
+ */
+import type { Engine } from "./db.js";
+import { quoteIdent, sqlNumber } from "./sql.js";
+import type { TargetSpec } from "./target.js";
+import { targetSql } from "./target.js";
+
+export const LEVEL_TABLE = "tailsift_levels";
+export const FOLD_HASH_NAME = "duckdb-hash-of-row-text";
+
+export interface PassPlan {
+  view: string;
+  /** Every column of the input in file order: the row identity the fold hash reads. */
+  identityColumns: readonly string[];
+  /** Columns whose levels are counted. */
+  levelColumns: readonly string[];
+  /** Columns for which only the non-missing count is kept (numeric columns). */
+  countColumns: readonly string[];
+  target?: TargetSpec;
+  folds: number;
+  seed: number;
+}
+
+export interface PassTotals {
+  rows: number;
+  foldRows: number[];
+  targetRows: number;
+  sumY: number;
+  sumY2: number;
+  badTargets: number;
+  nonMissing: Map<string, number>;
+}
+
+/**
+ * The fold of a row: a seeded hash of the row's full text (every column, in file order) modulo K.
+ * Rows that are exact duplicates share a fold, so duplicates cannot leak across folds.
+ * The same expression is used by `encode`, so scan and encode assign every row the same fold.
+ */
+export function foldSql(identityColumns: readonly string[], seed: number, folds: number): string {
+  const cols = identityColumns.map(quoteIdent).join(", ");
+  return `(hash(${sqlNumber(Math.trunc(seed))}::BIGINT, ${cols}) % ${sqlNumber(folds)})::INTEGER`;
+}
+
+/** The level-table query (also printed by `tailsift sql` for DuckDB). */
+export function levelPassSql(plan: PassPlan): string {
+  const target = plan.target ? targetSql(plan.target) : { y: "NULL::DOUBLE", bad: "false" };
+  const inner = [
+    `${foldSql(plan.identityColumns, plan.seed, plan.folds)} AS __fold`,
+    `${target.y} AS __y`,
+    `${target.bad} AS __bad`,
+    ...plan.levelColumns.map((c, i) => `${quoteIdent(c)} AS __v${i}`),
+    ...plan.countColumns.map((c, i) => `${quoteIdent(c)} AS __n${i}`),
+  ];
+  const sets = [...plan.levelColumns.map((_, i) => `(__v${i}, __fold)`), "(__fold)"];
+  const which = plan.levelColumns.length === 0
+    ? "-1"
+    : `CASE ${plan.levelColumns.map((_, i) => `WHEN GROUPING(__v${i}) = 0 THEN ${i}`).join(" ")} ELSE -1 END`;
+  const level = plan.levelColumns.length === 0
+    ? "NULL::VARCHAR"
+    : plan.levelColumns.length === 1 ? "__v0" : `COALESCE(${plan.levelColumns.map((_, i) => `__v${i}`).join(", ")})`;
+  const counts = plan.countColumns.map((_, i) => `, count(__n${i})::BIGINT AS __nn${i}`).join("");
+  return `SELECT (${which})::INTEGER AS col, ${level} AS level, __fold AS fold, count(*)::BIGINT AS rows,
+  count(__y)::BIGINT AS n_y, coalesce(sum(__y), 0)::DOUBLE AS sum_y, coalesce(sum(__y * __y), 0)::DOUBLE AS sum_y2,
+  count(*) FILTER (WHERE __bad)::BIGINT AS bad${counts}
+FROM (SELECT ${inner.join(", ")} FROM ${plan.view})
+GROUP BY GROUPING SETS (${sets.join(", ")})`;
+}
+
+/** Runs the pass and returns the totals; the level table stays in DuckDB. */
+export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "scanning the input"): Promise<PassTotals> {
+  await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TABLE} AS ${levelPassSql(plan)}`, doing);
+  const counts = plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("");
+  const rows = await engine.rows<Record<string, number>>(
+    `SELECT fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, bad::DOUBLE AS bad${counts}
+     FROM ${LEVEL_TABLE} WHERE col = -1 GROUP BY ALL ORDER BY fold`, "reading the pass totals");
+  const foldRows = Array.from({ length: plan.folds }, () => 0);
+  const totals: PassTotals = { rows: 0, foldRows, targetRows: 0, sumY: 0, sumY2: 0, badTargets: 0, nonMissing: new Map() };
+  for (const r of rows) {
+    foldRows[r.fold ?? 0] = r.rows ?? 0;
+    totals.rows += r.rows ?? 0;
+    totals.targetRows += r.n_y ?? 0;
+    totals.sumY += r.sum_y ?? 0;
+    totals.sumY2 += r.sum_y2 ?? 0;
+    totals.badTargets += r.bad ?? 0;
+    plan.countColumns.forEach((c, i) => totals.nonMissing.set(c, (totals.nonMissing.get(c) ?? 0) + (r[`nn${i}`] ?? 0)));
+  }
+  return totals;
+}

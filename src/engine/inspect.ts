@@ -1,0 +1,51 @@
+/**
+ * engine/inspect: a bounded look at the first rows (LIMIT, so the reader stops early) to decide
+ * which columns look numeric and what kind of target we have. Every decision made here is checked
+ * exactly in the full pass (values that do not fit the detected target kind are counted there).
+ */
+import type { Engine } from "./db.js";
+import { quoteIdent } from "./sql.js";
+
+export const SAMPLE_ROWS = 50_000;
+/** A column is numeric when every sampled value is a plain number (no leading zeros) and it has more than this many distinct values. */
+export const NUMERIC_MIN_DISTINCT = 20;
+
+const NUMBER_RE = "^-?(0|[1-9][0-9]*)(\\.[0-9]+)?([eE][-+]?[0-9]+)?$";
+
+export interface ColumnSample {
+  name: string;
+  nonMissing: number;
+  numberLike: number;
+  distinct: number;
+}
+
+/** Per-column counts over the first SAMPLE_ROWS rows. */
+export async function sampleColumns(engine: Engine, view: string, columns: readonly string[]): Promise<ColumnSample[]> {
+  if (columns.length === 0) return [];
+  const parts = columns.map((c, i) => {
+    const q = quoteIdent(c);
+    return `count(${q}) AS n${i}, count(*) FILTER (WHERE regexp_full_match(${q}, '${NUMBER_RE}')) AS k${i}, count(DISTINCT ${q}) AS d${i}`;
+  });
+  const [row] = await engine.rows<Record<string, number>>(
+    `SELECT ${parts.join(", ")} FROM (SELECT * FROM ${view} LIMIT ${SAMPLE_ROWS})`, "sampling the first rows");
+  return columns.map((name, i) => ({
+    name,
+    nonMissing: row?.[`n${i}`] ?? 0,
+    numberLike: row?.[`k${i}`] ?? 0,
+    distinct: row?.[`d${i}`] ?? 0,
+  }));
+}
+
+/** True when a sampled column reads as a measurement rather than a code. */
+export function looksNumeric(sample: ColumnSample): boolean {
+  return sample.nonMissing > 0 && sample.numberLike === sample.nonMissing && sample.distinct > NUMERIC_MIN_DISTINCT;
+}
+
+/** Distinct non-empty target values in the sample, lower-cased and trimmed, at most `limit`. */
+export async function sampleTargetValues(engine: Engine, view: string, column: string, limit = 50): Promise<string[]> {
+  const q = quoteIdent(column);
+  const rows = await engine.rows<{ v: string }>(
+    `SELECT DISTINCT trim(${q}) AS v FROM (SELECT ${q} FROM ${view} LIMIT ${SAMPLE_ROWS}) WHERE ${q} IS NOT NULL AND trim(${q}) <> '' ORDER BY v LIMIT ${limit}`,
+    `sampling target '${column}'`);
+  return rows.map((r) => r.v);
+}

@@ -1,0 +1,114 @@
+/**
+ * engine/levels: small, bounded summaries queried from the level table, never from the raw rows.
+ * Anything sized by the number of levels stays in DuckDB; only count-of-counts, top levels,
+ * grouped interval inputs and per-column sums cross into JavaScript.
+ */
+import type { CountOfCounts } from "../stats/types.js";
+import type { Engine } from "./db.js";
+import { LEVEL_TABLE } from "./aggregate.js";
+
+export const LEVEL_TOTALS = "tailsift_level_totals";
+
+export interface LevelRow { col: number; level: string | null; rows: number; n_y: number; sum_y: number; sum_y2: number }
+
+export interface ColumnLevelSummary {
+  col: number;
+  missing: number;
+  countOfCounts: CountOfCounts[];
+  top: LevelRow[];
+}
+
+/** Sums the level table over folds: one row per (column, level). */
+export async function buildLevelTotals(engine: Engine): Promise<void> {
+  await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TOTALS} AS
+    SELECT col, level, sum(rows)::BIGINT AS rows, sum(n_y)::BIGINT AS n_y, sum(sum_y)::DOUBLE AS sum_y, sum(sum_y2)::DOUBLE AS sum_y2
+    FROM ${LEVEL_TABLE} WHERE col >= 0 GROUP BY col, level`, "summing levels over folds");
+}
+
+/** Count-of-counts, missing rows and the top levels (by rows, ties by value) per column. */
+export async function summariseLevels(engine: Engine, columnCount: number, top: number): Promise<ColumnLevelSummary[]> {
+  const out: ColumnLevelSummary[] = Array.from({ length: columnCount }, (_, col) => ({ col, missing: 0, countOfCounts: [], top: [] }));
+  const coc = await engine.rows<{ col: number; count: number; levels: number }>(
+    `SELECT col, rows::DOUBLE AS count, count(*)::DOUBLE AS levels FROM ${LEVEL_TOTALS}
+     WHERE level IS NOT NULL GROUP BY col, rows ORDER BY col, count`, "counting levels by size");
+  for (const r of coc) out[r.col]?.countOfCounts.push({ count: r.count, levels: r.levels });
+  const missing = await engine.rows<{ col: number; rows: number }>(
+    `SELECT col, rows::DOUBLE AS rows FROM ${LEVEL_TOTALS} WHERE level IS NULL`, "counting missing values");
+  for (const r of missing) { const s = out[r.col]; if (s) s.missing = r.rows; }
+  const tops = await engine.rows<LevelRow>(
+    `SELECT col, level, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2 FROM ${LEVEL_TOTALS}
+     WHERE level IS NOT NULL
+     QUALIFY row_number() OVER (PARTITION BY col ORDER BY rows DESC, level) <= ${Math.max(0, Math.floor(top))}
+     ORDER BY col, rows DESC, level`, "finding the top levels");
+  for (const r of tops) out[r.col]?.top.push(r);
+  return out;
+}
+
+export interface VariantSummary { col: number; groups: number; levels: number; rows: number; examples: string[][] }
+
+/**
+ * Levels that collapse to one when case-folded, trimmed and inner whitespace collapsed:
+ * counts per column and up to five example groups (the largest), four spellings each.
+ */
+export async function findVariants(engine: Engine): Promise<Map<number, VariantSummary>> {
+  const rows = await engine.rows<{ col: number; groups: number; levels: number; rows: number; examples: string[][] }>(
+    `WITH g AS (
+       SELECT col, regexp_replace(lower(trim(level)), '\\s+', ' ', 'g') AS key, count(*) AS levels, sum(rows) AS rows,
+              list(level ORDER BY rows DESC, level)[1:4] AS spellings
+       FROM ${LEVEL_TOTALS} WHERE level IS NOT NULL GROUP BY col, key HAVING count(*) > 1)
+     SELECT col, count(*)::DOUBLE AS groups, sum(levels)::DOUBLE AS levels, sum(rows)::DOUBLE AS rows,
+            list(spellings ORDER BY rows DESC, key)[1:5] AS examples
+     FROM g GROUP BY col`, "looking for spelling variants");
+  return new Map(rows.map((r) => [r.col, r]));
+}
+
+export interface TargetColumnSums {
+  col: number;
+  levels: number;
+  rows: number;
+  sumY: number;
+  sumY2: number;
+  /** Σ sum_yᵢ² / nᵢ over levels with a target. */
+  sumSumSqOverRows: number;
+  /** Σ nᵢ² over levels with a target. */
+  sumRowsSq: number;
+}
+
+/** Per-column sums over levels with at least one target value (missing level included as a level). */
+export async function targetColumnSums(engine: Engine): Promise<Map<number, TargetColumnSums>> {
+  const rows = await engine.rows<TargetColumnSums>(
+    `SELECT col, count(*)::DOUBLE AS levels, sum(n_y)::DOUBLE AS rows, sum(sum_y) AS sumY, sum(sum_y2) AS sumY2,
+            sum(sum_y * sum_y / n_y) AS sumSumSqOverRows, sum(n_y::DOUBLE * n_y) AS sumRowsSq
+     FROM ${LEVEL_TOTALS} WHERE n_y > 0 GROUP BY col`, "summing the target by level");
+  return new Map(rows.map((r) => [r.col, r]));
+}
+
+export interface IntervalGroup { col: number; n: number; sumY: number; sumY2: number; levels: number }
+
+/**
+ * Binary target: levels grouped by (n, positives) — the Wilson interval depends on nothing else,
+ * so the number of groups stays small even for millions of levels.
+ */
+export async function binaryIntervalGroups(engine: Engine): Promise<IntervalGroup[]> {
+  return engine.rows<IntervalGroup>(
+    `SELECT col, n_y::DOUBLE AS n, sum_y AS sumY, 0::DOUBLE AS sumY2, count(*)::DOUBLE AS levels
+     FROM ${LEVEL_TOTALS} WHERE n_y > 0 AND level IS NOT NULL GROUP BY col, n_y, sum_y ORDER BY col, n, sumY`,
+    "grouping levels for intervals");
+}
+
+/** Continuous target: every level with n ≥ 2, streamed in chunks (bounded memory). */
+export async function streamContinuousLevels(engine: Engine, onRows: (rows: IntervalGroup[]) => void): Promise<void> {
+  await engine.stream(
+    `SELECT col, n_y::DOUBLE AS n, sum_y AS sumY, sum_y2 AS sumY2, 1::DOUBLE AS levels
+     FROM ${LEVEL_TOTALS} WHERE n_y >= 2 AND level IS NOT NULL`,
+    "reading levels for intervals", (rows) => onRows(rows as unknown as IntervalGroup[]));
+}
+
+/** Up to `limit` levels per column for the funnel plot (the largest by target rows). */
+export async function funnelLevels(engine: Engine, limit: number): Promise<LevelRow[]> {
+  return engine.rows<LevelRow>(
+    `SELECT col, level, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2 FROM ${LEVEL_TOTALS}
+     WHERE n_y > 0 AND level IS NOT NULL
+     QUALIFY row_number() OVER (PARTITION BY col ORDER BY n_y DESC, level) <= ${Math.floor(limit)}
+     ORDER BY col, n_y DESC, level`, "choosing levels for the funnel plot");
+}

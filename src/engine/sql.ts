@@ -1,0 +1,29 @@
+/**
+ * The one quoting helper for SQL text that comes from outside (column names, file paths, level
+ * values, user options). Identifiers cannot be bound as parameters in DuckDB, so they go through
+ * `quoteIdent`; values are bound as parameters wherever the statement allows it and otherwise
+ * through `quoteLiteral`.
+ */
+
+/** Quotes an identifier: "a""b". NUL cannot appear in a DuckDB identifier and is rejected. */
+export function quoteIdent(name: string): string {
+  if (name.includes("\u0000")) throw new RangeError("identifier contains a NUL character");
+  return `"${name.replaceAll('"', '""')}"`;
+}
+
+/** Quotes a string literal: 'it''s'. NUL is rejected (DuckDB strings cannot hold it). */
+export function quoteLiteral(value: string): string {
+  if (value.includes("\u0000")) throw new RangeError("literal contains a NUL character");
+  return `'${value.replaceAll("'", "''")}'`;
+}
+
+/** A list of string literals for IN (...) or list_value(...). */
+export function quoteLiteralList(values: readonly string[]): string {
+  return `[${values.map(quoteLiteral).join(", ")}]`;
+}
+
+/** A finite number as SQL text; throws on NaN/Infinity rather than emitting invalid SQL. */
+export function sqlNumber(value: number): string {
+  if (!Number.isFinite(value)) throw new RangeError(`not a finite number: ${value}`);
+  return String(value);
+}

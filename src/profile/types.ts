@@ -1,0 +1,126 @@
+/**
+ * The Profile: the JSON contract between commands (profile.json). Keys follow
+ * ../shared/DESIGN.md; more may be added, none removed. Shares are fractions in [0, 1].
+ */
+
+export type TargetKind = "binary" | "continuous";
+
+export type ColumnRole = "categorical" | "identifier" | "constant" | "numeric" | "target" | "excluded";
+
+export type Encoding =
+  | "drop"
+  | "indicator"
+  | "one-hot"
+  | "pooled-one-hot"
+  | "target-kfold"
+  | "hashing"
+  | "frequency"
+  | "codes"
+  /** Numeric and target columns: passed through unchanged by encode (not a categorical encoding). */
+  | "keep";
+
+export const ENCODINGS: readonly Encoding[] = [
+  "drop", "indicator", "one-hot", "pooled-one-hot", "target-kfold", "hashing", "frequency", "codes", "keep",
+];
+
+export interface Profile {
+  tool: { name: "tailsift"; version: string; engine?: string };
+  createdAt: string;
+  input: {
+    paths: string[];
+    rows: number;
+    bytes: number;
+    fingerprint: string;
+    format?: string;
+    skippedRows?: number;
+    redacted?: boolean;
+    fromLevels?: boolean;
+  };
+  target?: ProfileTarget;
+  settings: ProfileSettings;
+  columns: ColumnProfile[];
+}
+
+export interface ProfileTarget {
+  column: string;
+  kind: TargetKind;
+  positive?: string;
+  /** Rows with a usable target value. */
+  rows: number;
+  /** Rows whose target is missing (left out of every target figure). */
+  missing: number;
+  mean: number;
+  /** Continuous targets: population standard deviation of the target. */
+  sd?: number;
+}
+
+export interface ProfileSettings {
+  folds: number;
+  seed: number;
+  top: number;
+  foldHash?: string;
+  maxOneHot?: number;
+  minLevelRows?: number;
+  coverage?: number;
+  collisionBudget?: number;
+  [k: string]: unknown;
+}
+
+export interface LevelFigure {
+  value: string | null;
+  rows: number;
+  share: number;
+  targetMean?: number;
+  low?: number;
+  high?: number;
+  smoothed?: number;
+  flag?: "above" | "below";
+}
+
+export interface ColumnTargetFigures {
+  prior: { method: string; weight: number | null; mean: number; rho?: number | null; tau2?: number | null };
+  /** Levels whose 95 % interval excludes the overall mean. */
+  flaggedLevels: number;
+  /** Flags expected by chance alone at that number of levels (5 % of levels with an interval). */
+  expectedFalseFlags: number;
+  /** Levels with an interval (n >= 1 binary, n >= 2 continuous). */
+  testedLevels?: number;
+  leakage: { inSample: number | null; outOfFold: number | null; metric: "auc" | "r2"; weightUsed?: number };
+  /** Funnel-plot points: rate against rows for up to a bounded number of levels (report only). */
+  funnel?: { value: string | null; rows: number; rate: number }[];
+}
+
+export interface ColumnProfile {
+  name: string;
+  role: ColumnRole;
+  rows: number;
+  missing: number;
+  distinct: number;
+  entropyBits: number;
+  effectiveLevels: number;
+  singletons: number;
+  unseenRate: number;
+  unseenInterval?: { low: number; high: number };
+  coverage: { share: number; levels: number }[];
+  rare: { minRows: number; levels: number; rowShare: number }[];
+  variants?: { groups: number; levels: number; rowShare: number; examples: string[][] };
+  topLevels: LevelFigure[];
+  /** Count-of-counts (rows per level → number of levels), bounded (≈ sqrt(2N) entries). */
+  countOfCounts?: { count: number; levels: number }[];
+  target?: ColumnTargetFigures;
+  hashing?: {
+    width: number;
+    collisionRowShare: number;
+    hash?: string;
+    candidates: { width: number; collisionRowShare: number; collidingLevels?: number }[];
+  };
+  recommendation: Recommendation;
+}
+
+export interface Recommendation {
+  encoding: Encoding;
+  params: Record<string, unknown>;
+  reasons: string[];
+  cautions?: string[];
+  overridden?: { from: Encoding; by: string };
+}

@@ -1,0 +1,56 @@
+/**
+ * render/table: the terminal view of a profile — one row per column (cli-table3). Colour is off
+ * so output is the same in a pipe, a terminal and a test.
+ */
+import Table from "cli-table3";
+import type { ColumnProfile, Profile } from "../profile/types.js";
+import { formatCount, formatNumber, formatShare } from "./format.js";
+
+function keyParams(c: ColumnProfile): string {
+  const p = c.recommendation.params;
+  switch (c.recommendation.encoding) {
+    case "one-hot": return `${(p.levels as unknown[] | undefined)?.length ?? 0} cols`;
+    case "pooled-one-hot": return `${(p.keep as unknown[] | undefined)?.length ?? 0}+other, pooled ${formatShare(p.pooledRowShare as number)}`;
+    case "target-kfold": return `m=${formatNumber(p.weight as number, 1)}, K=${String(p.folds)}`;
+    case "hashing": return `w=${formatCount(p.width as number)}, coll ${formatShare(p.collisionRowShare as number, 2)}`;
+    case "frequency": return `${formatCount(p.tableSize as number)} levels`;
+    default: return "";
+  }
+}
+
+function rateRange(c: ColumnProfile): string {
+  const rates = c.topLevels.map((l) => l.targetMean).filter((x): x is number => typeof x === "number");
+  if (rates.length === 0) return "";
+  return `${formatNumber(Math.min(...rates), 3)}–${formatNumber(Math.max(...rates), 3)}`;
+}
+
+/** The per-column table printed by `scan`. */
+export function renderTable(profile: Profile): string {
+  const withTarget = profile.target !== undefined;
+  const head = ["column", "role", "distinct", "missing", "top-1", "95% levels", "unseen", ...(withTarget ? ["top rates", "m", "AUC in/oof"] : []), "advice", "params"];
+  if (withTarget && profile.target?.kind === "continuous") head[head.indexOf("AUC in/oof")] = "R² in/oof";
+  const table = new Table({ head, style: { head: [], border: [] } });
+  for (const c of profile.columns) {
+    const measured = c.role !== "numeric" && c.role !== "target" && c.role !== "excluded";
+    const row: string[] = [
+      c.name, c.role,
+      measured ? formatCount(c.distinct) : "",
+      formatShare(c.rows > 0 ? c.missing / c.rows : 0),
+      measured ? formatShare(c.topLevels[0]?.share ?? 0) : "",
+      measured ? formatCount(c.coverage.find((x) => x.share === 0.95)?.levels ?? 0) : "",
+      measured ? formatShare(c.unseenRate, 2) : "",
+    ];
+    if (withTarget) {
+      const t = c.target;
+      row.push(rateRange(c), t ? (t.prior.weight === null ? "none" : formatNumber(t.prior.weight, 1)) : "",
+        t ? `${formatNumber(t.leakage.inSample, 3)}/${formatNumber(t.leakage.outOfFold, 3)}` : "");
+    }
+    row.push(c.recommendation.encoding + (c.recommendation.overridden ? " (user)" : ""), keyParams(c));
+    table.push(row);
+  }
+  const t = profile.target;
+  const header = `${formatCount(profile.input.rows)} rows, ${profile.columns.length} columns` +
+    (t ? `; target '${t.column}' (${t.kind}, mean ${formatNumber(t.mean, 4)}, ${formatCount(t.missing)} missing)` : "") +
+    `; ${profile.settings.folds} folds, seed ${profile.settings.seed}`;
+  return `${header}\n${table.toString()}\n`;
+}
