@@ -5,54 +5,17 @@
  */
 import { realpathSync } from "node:fs";
 import { fileURLToPath } from "node:url";
-import { Command, CommanderError, InvalidArgumentError, Option } from "commander";
-import { parseDecision } from "./advice/overrides.js";
+import { Command, CommanderError, Option } from "commander";
+import { decisions, engineOptions, fraction, integer, list, sourceOptions } from "./commands/commonOptions.js";
 import { removePendingTemps } from "./commands/output.js";
 import { progressEnabled, startProgress } from "./commands/progress.js";
 import { runReport, runScan, type ScanCliOptions } from "./commands/scanCli.js";
 import { toolVersion } from "./commands/scan.js";
 import type { Engine } from "./engine/db.js";
+import type { CliIO } from "./commands/io.js";
 import { isTailsiftError } from "./errors.js";
-import type { Encoding } from "./profile/types.js";
 
-export interface CliIO {
-  stdout: (text: string) => void;
-  stderr: (text: string) => void;
-  /** Receives the running engine so a signal can interrupt it. */
-  onEngine?: (engine: Engine | null) => void;
-}
-
-const integer = (name: string) => (value: string) => {
-  if (!/^-?\d+$/.test(value)) throw new InvalidArgumentError(`${name} must be an integer`);
-  return Number(value);
-};
-const fraction = (name: string) => (value: string) => {
-  const x = Number(value);
-  if (!Number.isFinite(x)) throw new InvalidArgumentError(`${name} must be a number`);
-  return x;
-};
-const list = (value: string, previous: string[] = []) => [...previous, ...value.split(",").map((s) => s.trim()).filter((s) => s !== "")];
-const decisions = (value: string, previous: Record<string, Encoding> = {}) => {
-  const [column, encoding] = parseDecision(value);
-  return { ...previous, [column]: encoding };
-};
-
-function engineOptions(cmd: Command): Command {
-  return cmd
-    .option("--memory-limit <size>", "DuckDB memory limit, e.g. 2GB (default: 60% of RAM, at most 16GB)")
-    .option("--threads <n>", "DuckDB threads (default: all cores)", integer("--threads"))
-    .option("--temp-dir <dir>", "folder DuckDB spills to when memory runs short (default: the OS temp folder)")
-    .option("--quiet", "print nothing but results and errors")
-    .option("--no-progress", "no progress bar (it only shows when stderr is a terminal)")
-    .option("--debug", "print the stack trace of an error");
-}
-
-function sourceOptions(cmd: Command): Command {
-  return cmd
-    .option("--skip-bad-rows", "skip rows that do not parse (ragged rows) instead of stopping")
-    .option("--encoding <name>", "text encoding of CSV input: utf-8, latin-1 or utf-16")
-    .option("--delimiter <char>", "CSV delimiter (default: detected; tab for .tsv)");
-}
+export type { CliIO };
 
 export function buildProgram(io: CliIO): Command {
   const program = new Command();

@@ -7,7 +7,7 @@ import { createRequire } from "node:module";
 import { DEFAULT_POLICY, hashWidths, type AdvicePolicy } from "../advice/policy.js";
 import { recommend } from "../advice/recommend.js";
 import { applyOverrides } from "../advice/overrides.js";
-import { buildLevelTable, FOLD_HASH_NAME } from "../engine/aggregate.js";
+import { buildLevelTable, FOLD_HASH_NAME, type PassTotals } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { collisionTable, HASH_NAME } from "../engine/hashing.js";
 import { looksNumeric, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
@@ -61,6 +61,17 @@ export async function scan(inputs: readonly string[], options: ScanOptions = {})
   validatePolicy(policy);
   const top = options.top ?? 20;
   return withEngine(options, async (engine) => {
+    options.onEngine?.(engine);
+    try {
+      return await scanWith(engine, inputs, options, policy, top);
+    } finally {
+      options.onEngine?.(null);
+    }
+  });
+}
+
+async function scanWith(engine: Engine, inputs: readonly string[], options: ScanOptions, policy: AdvicePolicy, top: number): Promise<Profile> {
+  {
     const source = await openSource(engine, inputs, options);
     checkNames(source, options.columns, "--columns");
     checkNames(source, options.exclude, "--exclude");
@@ -82,67 +93,90 @@ export async function scan(inputs: readonly string[], options: ScanOptions = {})
       targetSpec = resolveTarget({ column: options.target, kind: options.targetKind, positive: options.positive }, sampled);
     }
 
-    options.onEngine?.(engine);
     const totals = await buildLevelTable(engine, {
       view: source.view, identityColumns: source.columns, levelColumns, countColumns: numeric,
       target: targetSpec, folds: policy.folds, seed: policy.seed,
     }, `scanning ${source.files.length === 1 ? `'${source.files[0]}'` : `${source.files.length} files`}`);
-    options.onEngine?.(null);
     if (totals.rows === 0) throw new TailsiftError("empty_input", "the input has a header but no rows");
 
     const target = targetSpec ? checkTarget(targetSpec, totals) : undefined;
-    await buildLevelTotals(engine);
-    const summaries = await summariseLevels(engine, levelColumns.length, Math.max(top, policy.maxOneHot + 1));
-    const variants = await findVariants(engine);
-
-    const columns: ColumnProfile[] = levelColumns.map((name, col) => {
-      const s = summaries[col];
-      const v = variants.get(col);
-      const figures = columnFigures({
-        name, rows: totals.rows, missing: s?.missing ?? 0, countOfCounts: s?.countOfCounts ?? [],
-        top: (s?.top ?? []).map((t) => ({ level: t.level, rows: t.rows })),
-        ...(v ? { variants: v } : {}),
-      });
-      const nonMissing = figures.rows - figures.missing;
-      if (figures.distinct <= 1) figures.role = "constant";
-      else if (isIdentifierLike(figures.distinct, nonMissing, figures.unseenRate)) figures.role = "identifier";
-      return { ...figures, recommendation: { encoding: "drop", params: {}, reasons: [] } };
-    });
-
-    if (target && targetSpec) await addTargetFigures(engine, columns, summaries.map((s) => s.top), target, top);
-    else await addHashing(engine, columns, policy);
-
-    for (const column of columns) {
-      column.topLevels = column.topLevels.slice(0, top);
-      column.recommendation = recommend(column, policy, target);
-    }
-    if (options.decide) applyOverrides(columns, options.decide, policy);
-    if (options.levelTableOut) await writeLevelTable(engine, levelColumns, options.levelTableOut);
-
-    const others: ColumnProfile[] = source.columns
-      .filter((c) => !levelColumns.includes(c))
-      .map((c) => c === options.target
-        ? unmeasuredColumn(c, "target", totals.rows, target?.missing ?? 0, "The target: passed through unchanged.")
-        : numeric.includes(c)
-          ? unmeasuredColumn(c, "numeric", totals.rows, totals.rows - (totals.nonMissing.get(c) ?? 0),
-            "Numeric: every sampled value is a number with more than 20 distinct values; passed through unchanged (use --as-categorical to profile it as levels).")
-          : unmeasuredColumn(c, "excluded", totals.rows, 0, "Excluded by --columns/--exclude: not measured."));
-    const order = new Map(source.columns.map((c, i) => [c, i]));
-    const all = [...columns, ...others].sort((a, b) => (order.get(a.name) ?? 0) - (order.get(b.name) ?? 0));
-
-    return {
-      tool: { name: "tailsift", version: toolVersion(), engine: "duckdb" },
-      createdAt: new Date().toISOString(),
+    return adviseFromLevelTable(engine, {
+      levelColumns, numeric, allColumns: source.columns, totals, target, policy, top, options,
       input: { paths: source.files, rows: totals.rows, bytes: source.bytes, fingerprint: source.fingerprint, format: source.format },
-      ...(target ? { target } : {}),
-      settings: {
-        folds: policy.folds, seed: policy.seed, top, foldHash: FOLD_HASH_NAME, maxOneHot: policy.maxOneHot,
-        minLevelRows: policy.minLevelRows, coverage: policy.coverage, collisionBudget: policy.collisionBudget,
-        foldColumns: source.columns,
-      },
-      columns: all,
-    };
+    });
+  }
+}
+
+export interface LevelTableContext {
+  levelColumns: string[];
+  numeric: string[];
+  allColumns: string[];
+  totals: PassTotals;
+  target: ProfileTarget | undefined;
+  policy: AdvicePolicy;
+  top: number;
+  options: ScanOptions;
+  input: Profile["input"];
+}
+
+/**
+ * Everything after the pass: figures, target statistics and advice, read from the level table
+ * `tailsift_levels` alone. `scan` calls it after its pass; `scan --levels` after loading tables
+ * produced elsewhere.
+ */
+export async function adviseFromLevelTable(engine: Engine, ctx: LevelTableContext): Promise<Profile> {
+  const { levelColumns, numeric, totals, target, policy, top, options } = ctx;
+  await buildLevelTotals(engine);
+  const summaries = await summariseLevels(engine, levelColumns.length, Math.max(top, policy.maxOneHot + 1));
+  const variants = await findVariants(engine);
+
+  const columns: ColumnProfile[] = levelColumns.map((name, col) => {
+    const s = summaries[col];
+    const v = variants.get(col);
+    const figures = columnFigures({
+      name, rows: totals.rows, missing: s?.missing ?? 0, countOfCounts: s?.countOfCounts ?? [],
+      top: (s?.top ?? []).map((t) => ({ level: t.level, rows: t.rows })),
+      ...(v ? { variants: v } : {}),
+    });
+    const nonMissing = figures.rows - figures.missing;
+    if (figures.distinct <= 1) figures.role = "constant";
+    else if (isIdentifierLike(figures.distinct, nonMissing, figures.unseenRate)) figures.role = "identifier";
+    return { ...figures, recommendation: { encoding: "drop", params: {}, reasons: [] } };
   });
+
+  if (target) await addTargetFigures(engine, columns, summaries.map((s) => s.top), target, top);
+  else await addHashing(engine, columns, policy);
+
+  for (const column of columns) {
+    column.topLevels = column.topLevels.slice(0, top);
+    column.recommendation = recommend(column, policy, target);
+  }
+  if (options.decide) applyOverrides(columns, options.decide, policy);
+  if (options.levelTableOut) await writeLevelTable(engine, levelColumns, options.levelTableOut);
+
+  const others: ColumnProfile[] = ctx.allColumns
+    .filter((c) => !levelColumns.includes(c))
+    .map((c) => c === options.target
+      ? unmeasuredColumn(c, "target", totals.rows, target?.missing ?? 0, "The target: passed through unchanged.")
+      : numeric.includes(c)
+        ? unmeasuredColumn(c, "numeric", totals.rows, totals.rows - (totals.nonMissing.get(c) ?? 0),
+          "Numeric: every sampled value is a number with more than 20 distinct values; passed through unchanged (use --as-categorical to profile it as levels).")
+        : unmeasuredColumn(c, "excluded", totals.rows, 0, "Excluded by --columns/--exclude: not measured."));
+  const order = new Map(ctx.allColumns.map((c, i) => [c, i]));
+  const all = [...columns, ...others].sort((a, b) => (order.get(a.name) ?? 0) - (order.get(b.name) ?? 0));
+
+  return {
+    tool: { name: "tailsift", version: toolVersion(), engine: "duckdb" },
+    createdAt: new Date().toISOString(),
+    input: ctx.input,
+    ...(target ? { target } : {}),
+    settings: {
+      folds: policy.folds, seed: policy.seed, top, foldHash: FOLD_HASH_NAME, maxOneHot: policy.maxOneHot,
+      minLevelRows: policy.minLevelRows, coverage: policy.coverage, collisionBudget: policy.collisionBudget,
+      foldColumns: ctx.allColumns,
+    },
+    columns: all,
+  };
 }
 
 function validatePolicy(p: AdvicePolicy): void {

@@ -1,0 +1,37 @@
+/** Option parsers and option groups shared by the commands (commander). */
+import { type Command, InvalidArgumentError } from "commander";
+import { parseDecision } from "../advice/overrides.js";
+import type { Encoding } from "../profile/types.js";
+
+export const integer = (name: string) => (value: string) => {
+  if (!/^-?\d+$/.test(value)) throw new InvalidArgumentError(`${name} must be an integer`);
+  return Number(value);
+};
+export const fraction = (name: string) => (value: string) => {
+  const x = Number(value);
+  if (!Number.isFinite(x)) throw new InvalidArgumentError(`${name} must be a number`);
+  return x;
+};
+export const list = (value: string, previous: string[] = []) => [...previous, ...value.split(",").map((s) => s.trim()).filter((s) => s !== "")];
+export const decisions = (value: string, previous: Record<string, Encoding> = {}) => {
+  const [column, encoding] = parseDecision(value);
+  return { ...previous, [column]: encoding };
+};
+
+export function engineOptions(cmd: Command): Command {
+  return cmd
+    .option("--memory-limit <size>", "DuckDB memory limit, e.g. 2GB (default: 60% of RAM, at most 16GB)")
+    .option("--threads <n>", "DuckDB threads (default: all cores)", integer("--threads"))
+    .option("--temp-dir <dir>", "folder DuckDB spills to when memory runs short (default: the OS temp folder)")
+    .option("--quiet", "print nothing but results and errors")
+    .option("--no-progress", "no progress bar (it only shows when stderr is a terminal)")
+    .option("--debug", "print the stack trace of an error");
+}
+
+export function sourceOptions(cmd: Command): Command {
+  return cmd
+    .option("--skip-bad-rows", "skip rows that do not parse (ragged rows) instead of stopping")
+    .option("--encoding <name>", "text encoding of CSV input: utf-8, latin-1 or utf-16")
+    .option("--delimiter <char>", "CSV delimiter (default: detected; tab for .tsv)");
+}
+

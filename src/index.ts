@@ -1,0 +1,18 @@
+/**
+ * The tailsift library API. The CLI (cli.ts) is built on exactly these calls.
+ */
+export { scan, adviseFromLevelTable, toolVersion } from "./commands/scan.js";
+export type { ScanOptions } from "./commands/scan.js";
+export { readProfile, writeReportFolder } from "./commands/scanCli.js";
+export { validateProfile, PROFILE_SCHEMA } from "./profile/schema.js";
+export type {
+  Profile, ProfileTarget, ProfileSettings, ColumnProfile, ColumnRole, Encoding, LevelFigure, Recommendation, TargetKind,
+} from "./profile/types.js";
+export { DEFAULT_POLICY } from "./advice/policy.js";
+export type { AdvicePolicy } from "./advice/policy.js";
+export { recommend } from "./advice/recommend.js";
+export { renderTable } from "./render/table.js";
+export { renderDecisionRecord } from "./render/markdown.js";
+export { renderHtmlReport } from "./render/html.js";
+export { TailsiftError } from "./errors.js";
+export { runCli, buildProgram } from "./cli.js";
