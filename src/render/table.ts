@@ -29,7 +29,7 @@ export function renderTable(profile: Profile): string {
   const withTarget = profile.target !== undefined;
   const head = ["column", "role", "distinct", "missing", "top-1", "95% levels", "unseen", ...(withTarget ? ["top rates", "m", "AUC in/oof"] : []), "advice", "params"];
   if (withTarget && profile.target?.kind === "continuous") head[head.indexOf("AUC in/oof")] = "R² in/oof";
-  const table = new Table({ head, style: { head: [], border: [] } });
+  const table = new Table({ head, style: { head: [], border: [], compact: true } });
   for (const c of profile.columns) {
     const measured = c.role !== "numeric" && c.role !== "target" && c.role !== "excluded";
     const row: string[] = [

@@ -1,0 +1,100 @@
+/**
+ * The CLI, in-process (commander program with exitOverride) and end to end on the built binary.
+ * Exit code, message and output are asserted together.
+ */
+import { execFile } from "node:child_process";
+import fs from "node:fs";
+import path from "node:path";
+import { promisify } from "node:util";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { runCli } from "../../src/cli.js";
+import { validateProfile } from "../../src/profile/schema.js";
+import { collector, tempDir, writeFile } from "../helpers/tmp.js";
+
+const run = promisify(execFile);
+const dir = tempDir("cli");
+afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+const CSV = "id,colour,size,y\n1,red,S,1\n2,red,M,0\n3,blue,S,0\n4,blue,L,1\n5,green,S,0\n6,red,M,0\n";
+const small = writeFile(dir, "small.csv", CSV);
+
+describe("tailsift in-process", () => {
+  it("prints help with every command and exits 0", async () => {
+    const c = collector();
+    expect(await runCli(["--help"], c.io)).toBe(0);
+    for (const cmd of ["scan", "report"]) expect(c.out).toContain(cmd);
+  });
+
+  it("scan --format json prints a profile that validates against the published schema", async () => {
+    const c = collector();
+    expect(await runCli(["scan", small, "--target", "y", "--format", "json"], c.io)).toBe(0);
+    const profile = validateProfile(JSON.parse(c.out));
+    expect(profile.input.rows).toBe(6);
+    expect(profile.target).toMatchObject({ column: "y", kind: "binary", rows: 6, mean: 2 / 6 });
+    expect(profile.columns.map((x) => x.name)).toEqual(["id", "colour", "size", "y"]);
+  });
+
+  it("scan prints a table with one row per column", async () => {
+    const c = collector();
+    expect(await runCli(["scan", small], c.io)).toBe(0);
+    expect(c.out).toMatch(/6 rows, 4 columns/);
+    for (const name of ["id", "colour", "size", "y"]) expect(c.out).toContain(name);
+  });
+
+  it("scan --out writes profile.json, decisions.md, report.html and levels.parquet, and report re-renders", async () => {
+    const out = path.join(dir, "out");
+    const c = collector();
+    expect(await runCli(["scan", small, "--target", "y", "--out", out, "--quiet"], c.io)).toBe(0);
+    for (const f of ["profile.json", "decisions.md", "report.html", "levels.parquet"]) expect(fs.existsSync(path.join(out, f)), f).toBe(true);
+    expect(fs.readdirSync(out).filter((f) => f.endsWith(".tmp"))).toEqual([]);
+    const again = path.join(dir, "again.html");
+    const r = collector();
+    expect(await runCli(["report", path.join(out, "profile.json"), "--out", again], r.io)).toBe(0);
+    expect(fs.readFileSync(again, "utf8")).toContain("<svg");
+  });
+
+  it("--decide overrides the advice and the record says so", async () => {
+    const c = collector();
+    expect(await runCli(["scan", small, "--decide", "colour=hashing", "--format", "json"], c.io)).toBe(0);
+    const rec = JSON.parse(c.out).columns.find((x: { name: string }) => x.name === "colour").recommendation;
+    expect(rec.encoding).toBe("hashing");
+    expect(rec.overridden.by).toBe("--decide");
+  });
+
+  it.each([
+    ["file not found", ["scan", path.join(dir, "nope.csv")], /input '.*nope\.csv' not found/],
+    ["unsupported format", ["scan", writeFile(dir, "x.xlsx", "abc")], /cannot read '.*x\.xlsx': use \.csv/],
+    ["empty file", ["scan", writeFile(dir, "empty.csv", "")], /is empty/],
+    ["header only", ["scan", writeFile(dir, "header.csv", "a,b,c\n")], /header but no rows/],
+    ["unknown column in --columns", ["scan", small, "--columns", "colour,nope"], /--columns: column 'nope' not found; columns are: id, colour, size, y/],
+    ["bad --folds", ["scan", small, "--folds", "1"], /--folds must be an integer from 2 to 100/],
+    ["bad --decide", ["scan", small, "--decide", "colour=magic"], /--decide 'colour=magic'/],
+    ["unknown option", ["scan", small, "--frobnicate"], /unknown option/],
+    ["glob with no match", ["scan", path.join(dir, "none-*.csv")], /no file matches/],
+    ["output equal to an input", ["report", small, "--out", small], /not JSON|is also an input/],
+  ])("%s: exit 2 with one line, no stack trace", async (_name, argv, message) => {
+    const c = collector();
+    expect(await runCli(argv, c.io)).toBe(2);
+    expect(c.err).toMatch(message);
+    expect(c.err).not.toMatch(/\n\s+at /);
+  });
+});
+
+describe("tailsift binary end to end", () => {
+  const bin = path.join(process.cwd(), "dist", "cli.js");
+  beforeAll(() => {
+    if (!fs.existsSync(bin)) throw new Error("dist/cli.js missing: run `npm run build` (npm test does it)");
+  });
+
+  it("scans and exits 0; a bad input exits 2 with one line on stderr", async () => {
+    const ok = await run("node", [bin, "scan", small, "--target", "y", "--format", "json"]);
+    expect(JSON.parse(ok.stdout).input.rows).toBe(6);
+    const bad = await run("node", [bin, "scan", path.join(dir, "missing.csv")]).catch((e: { code: number; stderr: string }) => e);
+    expect((bad as { code: number }).code).toBe(2);
+    expect((bad as { stderr: string }).stderr.trim().split("\n")).toHaveLength(1);
+  });
+
+  it("prints its version", async () => {
+    const { stdout } = await run("node", [bin, "--version"]);
+    expect(stdout.trim()).toBe(JSON.parse(fs.readFileSync("package.json", "utf8")).version);
+  });
+});
