@@ -3,8 +3,8 @@ import { summariseCountOfCounts } from "./summariseCountOfCounts.js";
 
 /**
  * Bias-corrected Chao1 estimate of the total number of levels:
- * S_obs + f₁(f₁−1)/(2(f₂+1)) (Chao 1984; bias-corrected form as in Chao 1987 / EstimateS
- * documentation — memory). Always finite, never below S_obs.
+ * S_obs + f₁(f₁−1)/(2(f₂+1)) (Chao 1984; bias-corrected form after Chao 1987, Biometrics 43:783–791 —
+ * memory). Always finite, never below S_obs.
  *
  * Edge cases: empty table → 0; no singletons → S_obs.
  * @throws RangeError for negative or non-finite entries.

@@ -5,7 +5,7 @@ import { summariseCountOfCounts } from "./summariseCountOfCounts.js";
  * Good–Turing unseen-level rate n₁/N (Good 1953) with a normal-approximation interval
  * rate ± z·√Var, using the variance estimate Var ≈ (n₁(1 − n₁/N) + 2·n₂)/N² of Esty (1983),
  * "A normal limit law for a nonparametric estimator of the coverage of a random sample",
- * Annals of Statistics 11:905–912 (variance formula from memory). Bounds are clamped to [0, 1].
+ * Annals of Statistics 11:905–912 (citation details and variance formula from memory). Bounds are clamped to [0, 1].
  *
  * Edge cases: no rows → null. No singletons and no doubletons → rate 0 with a zero-width
  * interval [0, 0] (the normal approximation has nothing to work with; treat as optimistic).

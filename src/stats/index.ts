@@ -27,7 +27,11 @@ export { rareLevels } from "./rareLevels.js";
 // Intervals
 export { wilsonInterval } from "./wilsonInterval.js";
 export { logGamma } from "./logGamma.js";
+export { logBeta, stirlingCorrection } from "./logBeta.js";
 export { regularizedIncompleteBeta } from "./regularizedIncompleteBeta.js";
+export { regularizedIncompleteGamma } from "./regularizedIncompleteGamma.js";
+export { invertConvexTail } from "./invertConvexTail.js";
+export { normalQuantile, normalUpperTail, roughNormalQuantile } from "./normalQuantile.js";
 export { studentTQuantile } from "./studentTQuantile.js";
 export { meanInterval } from "./meanInterval.js";
 export { funnelLimits } from "./funnelLimits.js";

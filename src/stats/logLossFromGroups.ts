@@ -3,7 +3,7 @@
  * predicted probability: −Σ[pos·ln p + neg·ln(1 − p)] / Σ(pos + neg) (Good 1952, "Rational
  * decisions", JRSS B 14:107–114, logarithmic scoring rule). Predictions are clipped to
  * [eps, 1 − eps] so that a confident wrong prediction costs a large but finite amount
- * (common practice; scikit-learn's historical default eps = 1e-15).
+ * (common practice; 1e-15 is a widely used default).
  *
  * Edge cases: no rows → null. A group with zero positives never evaluates ln p (and likewise
  * for negatives), so exact 0/1 predictions that are right cost 0.

@@ -1,4 +1,4 @@
-import { logGamma } from "./logGamma.js";
+import { logBeta } from "./logBeta.js";
 
 const EPS = 1e-16;
 const TINY = 1e-300;
@@ -50,7 +50,7 @@ export function regularizedIncompleteBeta(
   if (y === 0) return { lower: 1, upper: 0 };
   const logX = x > 0.5 ? Math.log1p(-y) : Math.log(x);
   const logY = y > 0.5 ? Math.log1p(-x) : Math.log(y);
-  const front = Math.exp(a * logX + b * logY - (logGamma(a) + logGamma(b) - logGamma(a + b)));
+  const front = Math.exp(a * logX + b * logY - logBeta(a, b));
   if (x < (a + 1) / (a + b + 2)) {
     const lower = (front * betaContinuedFraction(x, a, b)) / a;
     return { lower, upper: 1 - lower };

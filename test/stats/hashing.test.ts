@@ -1,0 +1,60 @@
+import { describe, it, expect } from "vitest";
+import { expectedBucketsUsed, expectedCollidingLevels, birthdayCollisionProbability } from "../../src/stats/index.js";
+import { seededRandom } from "./seededRandom.js";
+
+describe("expectedBucketsUsed / expectedCollidingLevels", () => {
+  it("w = n = 1024 → 647.475 buckets used; w = 2¹⁸, n = 10,000 → 9,811.686", () => {
+    // CHECKS.md (recomputed from w(1 − (1 − 1/w)ⁿ)).
+    expect(expectedBucketsUsed(1024, 1024)).toBeCloseTo(647.475, 3);
+    expect(expectedBucketsUsed(10000, 2 ** 18)).toBeCloseTo(9811.686, 3);
+    expect(expectedCollidingLevels(1024, 1024)).toBeCloseTo(1024 - 647.475, 3);
+    expect(expectedCollidingLevels(10000, 2 ** 18)).toBeCloseTo(188.314, 3);
+  });
+
+  it("agrees with the plain power formula and with a seeded simulation", () => {
+    // Plain formula with Math.pow (independent of the log1p/expm1 route).
+    for (const [n, w] of [[10, 16], [500, 64], [3000, 4096]] as const) {
+      expect(expectedBucketsUsed(n, w)).toBeCloseTo(w * (1 - Math.pow(1 - 1 / w, n)), 9);
+    }
+    // Simulation: 200 rounds of 1,024 levels into 1,024 buckets; mean occupancy near 647.5.
+    const random = seededRandom(11);
+    let used = 0;
+    for (let round = 0; round < 200; round++) {
+      const buckets = new Set<number>();
+      for (let i = 0; i < 1024; i++) buckets.add(Math.floor(random() * 1024));
+      used += buckets.size;
+    }
+    expect(Math.abs(used / 200 - expectedBucketsUsed(1024, 1024))).toBeLessThan(2);
+  });
+
+  it("documents edge cases and rejects bad widths", () => {
+    expect(expectedBucketsUsed(0, 8)).toBe(0);
+    expect(expectedBucketsUsed(5, 1)).toBe(1);
+    expect(expectedCollidingLevels(0, 8)).toBe(0);
+    expect(expectedBucketsUsed(14.5, 1e6)).toBeCloseTo(14.5, 3); // fractional (estimated) level counts allowed
+    expect(() => expectedBucketsUsed(5, 0)).toThrow(RangeError);
+    expect(() => expectedBucketsUsed(5, 2.5)).toThrow(RangeError);
+    expect(() => expectedBucketsUsed(-1, 8)).toThrow(RangeError);
+  });
+});
+
+describe("birthdayCollisionProbability", () => {
+  it("w = 365: 23 → 0.507297, 57 → 0.990122, 70 → 0.999160", () => {
+    // CHECKS.md (recomputed); 50 % at 23 and 99 % at 57 are the published birthday-problem figures.
+    expect(birthdayCollisionProbability(23, 365)).toBeCloseTo(0.507297, 6);
+    expect(birthdayCollisionProbability(57, 365)).toBeCloseTo(0.990122, 6);
+    expect(birthdayCollisionProbability(70, 365)).toBeCloseTo(0.99916, 6);
+    expect(birthdayCollisionProbability(22, 365)).toBeLessThan(0.5);
+  });
+
+  it("keeps tiny probabilities precise: n = 2 gives exactly 1/w", () => {
+    expect(birthdayCollisionProbability(2, 2 ** 40) * 2 ** 40).toBeCloseTo(1, 12);
+  });
+
+  it("is 0 for n ≤ 1, 1 past the pigeonhole, and rejects fractional n", () => {
+    expect(birthdayCollisionProbability(0, 10)).toBe(0);
+    expect(birthdayCollisionProbability(1, 10)).toBe(0);
+    expect(birthdayCollisionProbability(11, 10)).toBe(1);
+    expect(() => birthdayCollisionProbability(2.5, 10)).toThrow(RangeError);
+  });
+});
