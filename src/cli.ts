@@ -11,6 +11,7 @@ import { removePendingTemps } from "./commands/output.js";
 import { progressEnabled, startProgress } from "./commands/progress.js";
 import { runReport, runScan, type ScanCliOptions } from "./commands/scanCli.js";
 import { toolVersion } from "./commands/scan.js";
+import { addSqlCommand } from "./commands/sqlCli.js";
 import type { Engine } from "./engine/db.js";
 import type { CliIO } from "./commands/io.js";
 import { isTailsiftError } from "./errors.js";
@@ -45,7 +46,9 @@ export function buildProgram(io: CliIO): Command {
     .option("--collision-budget <share>", "largest colliding row share for hashing", fraction("--collision-budget"), 0.01)
     .option("--decide <column=encoding>", "override the advice for a column (repeatable)", decisions)
     .addOption(new Option("--format <format>", "output format").choices(["table", "json", "markdown"]).default("table"))
-    .option("--out <dir>", "write profile.json, decisions.md, report.html and levels.parquet to this folder");
+    .option("--out <dir>", "write profile.json, decisions.md, report.html and levels.parquet to this folder")
+    .option("--redact", "replace level values in every output by a keyed hash prefix (key: TAILSIFT_REDACT_KEY, else random)")
+    .option("--levels", "the inputs are level tables (Parquet or CSV) made by the query of tailsift sql: shards are added together and the folds are those of the table");
   engineOptions(sourceOptions(scan)).action(async (inputs: string[], opts: ScanCliOptions) => {
     const progress = startProgress("scanning", progressEnabled(opts));
     try {
@@ -62,6 +65,7 @@ export function buildProgram(io: CliIO): Command {
     .option("--debug", "print the stack trace of an error")
     .action(async (profilePath: string, opts: { out: string }) => runReport(profilePath, opts.out, io));
 
+  addSqlCommand(program, io);
   return program;
 }
 

@@ -16,3 +16,6 @@ export { renderDecisionRecord } from "./render/markdown.js";
 export { renderHtmlReport } from "./render/html.js";
 export { TailsiftError } from "./errors.js";
 export { runCli, buildProgram } from "./cli.js";
+export { levelSql } from "./commands/sql.js";
+export { scanLevels } from "./commands/levels.js";
+export { redactProfile } from "./profile/redact.js";

@@ -9,11 +9,14 @@ import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
 import { TailsiftError } from "../errors.js";
 import { validateProfile } from "../profile/schema.js";
 import type { Encoding, Profile } from "../profile/types.js";
+import { redactProfile } from "../profile/redact.js";
 import { renderHtmlReport } from "../render/html.js";
 import { renderDecisionRecord } from "../render/markdown.js";
 import { renderTable } from "../render/table.js";
 import { ensureOutputDir, refuseInputAsOutput, writeFileAtomic } from "./output.js";
+import { scanLevels } from "./levels.js";
 import { scan } from "./scan.js";
+import { levelScanOptions } from "./sqlCli.js";
 
 export interface ScanCliOptions {
   target?: string; positive?: string; targetKind?: "binary" | "continuous";
@@ -25,6 +28,9 @@ export interface ScanCliOptions {
   memoryLimit?: string; threads?: number; tempDir?: string;
   skipBadRows?: boolean; encoding?: string; delimiter?: string;
   quiet?: boolean; progress?: boolean; debug?: boolean;
+  /** The inputs are level tables (from the query of `tailsift sql`), not raw rows. */
+  levels?: boolean;
+  redact?: boolean;
 }
 
 interface IO { stdout: (t: string) => void; stderr: (t: string) => void }
@@ -34,21 +40,22 @@ export async function runScan(inputs: string[], o: ScanCliOptions, io: IO, onEng
     refuseInputAsOutput(o.out, inputs);
     ensureOutputDir(o.out);
   }
-  const profile = await scan(inputs, {
+  const measured = o.levels ? await scanLevels(inputs, levelScanOptions(o, onEngine)) : await scan(inputs, {
     target: o.target, positive: o.positive, targetKind: o.targetKind,
     columns: o.columns, exclude: o.exclude, asCategorical: o.asCategorical, top: o.top,
     policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget },
     decide: o.decide,
     memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
     skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter,
-    levelTableOut: o.out ? path.join(o.out, LEVEL_FILE_NAME) : undefined,
+    levelTableOut: o.out && !o.redact ? path.join(o.out, LEVEL_FILE_NAME) : undefined,
     onEngine,
   });
+  const profile = o.redact ? redactProfile(measured, process.env.TAILSIFT_REDACT_KEY || undefined) : measured;
   if (o.out) await writeReportFolder(profile, o.out);
   if (o.format === "json") io.stdout(`${JSON.stringify(profile, null, 2)}\n`);
   else if (o.format === "markdown") io.stdout(renderDecisionRecord(profile));
   else io.stdout(renderTable(profile));
-  if (o.out && !o.quiet) io.stderr(`wrote ${["profile.json", "decisions.md", "report.html", LEVEL_FILE_NAME].map((f) => path.join(o.out!, f)).join(", ")}\n`);
+  if (o.out && !o.quiet) io.stderr(`wrote ${["profile.json", "decisions.md", "report.html", ...(o.redact ? [] : [LEVEL_FILE_NAME])].map((f) => path.join(o.out!, f)).join(", ")}\n`);
 }
 
 /** Writes profile.json, decisions.md and report.html, each atomically. */

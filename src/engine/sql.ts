@@ -27,3 +27,20 @@ export function sqlNumber(value: number): string {
   if (!Number.isFinite(value)) throw new RangeError(`not a finite number: ${value}`);
   return String(value);
 }
+
+/** Spark SQL: identifiers in backticks (`a``b`). */
+export function quoteIdentBacktick(name: string): string {
+  if (name.includes("\u0000")) throw new RangeError("identifier contains a NUL character");
+  return `\`${name.replaceAll("`", "``")}\``;
+}
+
+/** Spark SQL: string literals escape quotes and backslashes with a backslash. */
+export function quoteLiteralBackslash(value: string): string {
+  if (value.includes("\u0000")) throw new RangeError("literal contains a NUL character");
+  return `'${value.replaceAll("\\", "\\\\").replaceAll("'", "\\'")}'`;
+}
+
+/** How identifiers, literals and the text type are written in one SQL dialect. */
+export interface SqlDialect { name: "ansi" | "spark"; ident: (s: string) => string; literal: (s: string) => string; text: string }
+export const ANSI_SQL: SqlDialect = { name: "ansi", ident: quoteIdent, literal: quoteLiteral, text: "VARCHAR" };
+export const SPARK_SQL: SqlDialect = { name: "spark", ident: quoteIdentBacktick, literal: quoteLiteralBackslash, text: "STRING" };

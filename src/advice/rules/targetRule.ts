@@ -21,6 +21,8 @@ export function outOfFoldSignal(column: ColumnProfile, target: ProfileTarget): {
   return { present: oof > 0, text: `out-of-fold R² ${num(oof, 4)}` };
 }
 
+const leakOk = (text: string) => !text.includes("could not be computed");
+
 /** Rule 5: with a target, the out-of-fold m-estimate — or frequency when there is no signal. */
 export function targetRule(column: ColumnProfile, policy: AdvicePolicy, target: ProfileTarget | undefined): Recommendation | null {
   if (!target || !column.target) return null;
@@ -30,7 +32,7 @@ export function targetRule(column: ColumnProfile, policy: AdvicePolicy, target: 
     const levels95 = column.coverage.find((c) => c.share === 0.95)?.levels ?? column.distinct;
     const why = prior.weight === null
       ? "no detectable between-level signal: the spread of level means is no larger than sampling noise explains"
-      : `the ${signal.text} is indistinguishable from no signal`;
+      : leakOk(signal.text) ? `the ${signal.text} is indistinguishable from no signal` : `${signal.text}`;
     return {
       encoding: "frequency",
       params: { tableSize: column.distinct, unseen: 0 },

@@ -1,0 +1,57 @@
+/**
+ * profile/redact: replaces every level value in a profile by a keyed hash prefix, for extracts
+ * that hold personal data. Value → "#" + the first 12 hex digits of HMAC-SHA-256(key, value).
+ * With the same key the same value always gets the same tag, so a reviewer can still follow a
+ * level through the record; without the key the tag cannot be reversed by guessing common values.
+ * A redacted profile is for review: `encode` cannot map tags back to levels and refuses it.
+ */
+import { createHmac, randomBytes } from "node:crypto";
+import type { ColumnProfile, Profile } from "./types.js";
+
+export function redactValue(key: string, value: string): string {
+  return `#${createHmac("sha256", key).update(value, "utf8").digest("hex").slice(0, 12)}`;
+}
+
+function redactParams(params: Record<string, unknown>, tag: (v: string) => string): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(params)) {
+    if ((k === "keep" || k === "levels") && Array.isArray(v)) out[k] = v.map((x) => (typeof x === "string" ? tag(x) : x));
+    else if ((k === "one" || k === "zero") && typeof v === "string") out[k] = tag(v);
+    else out[k] = v;
+  }
+  return out;
+}
+
+function redactColumn(c: ColumnProfile, tag: (v: string) => string): ColumnProfile {
+  const t = (v: string | null) => (v === null ? null : tag(v));
+  const out: ColumnProfile = {
+    ...c,
+    topLevels: c.topLevels.map((l) => ({ ...l, value: t(l.value) })),
+    recommendation: { ...c.recommendation, params: redactParams(c.recommendation.params, tag), reasons: c.recommendation.reasons.map((r) => redactQuoted(r, tag)) },
+  };
+  if (c.variants) out.variants = { ...c.variants, examples: c.variants.examples.map((g) => g.map(tag)) };
+  if (c.target?.funnel) out.target = { ...c.target, funnel: c.target.funnel.map((f) => ({ ...f, value: t(f.value) })) };
+  return out;
+}
+
+/** Level values quoted in reasons ('value') are replaced too. */
+function redactQuoted(text: string, tag: (v: string) => string): string {
+  return text.replace(/'([^']*)'/g, (_m, v: string) => `'${tag(v)}'`);
+}
+
+/**
+ * Returns a redacted copy. `key` defaults to a random key that is not kept, so tags cannot be
+ * linked across runs; pass a key (e.g. from TAILSIFT_REDACT_KEY) to keep them stable.
+ */
+export function redactProfile(profile: Profile, key?: string): Profile {
+  const secret = key ?? randomBytes(32).toString("hex");
+  const names = new Set(profile.columns.map((c) => c.name));
+  // column names are not personal data; keep them readable in reasons
+  const tag = (v: string) => (names.has(v) ? v : redactValue(secret, v));
+  return {
+    ...profile,
+    input: { ...profile.input, redacted: true },
+    settings: { ...profile.settings, redaction: key ? "HMAC-SHA-256 with the key in TAILSIFT_REDACT_KEY, first 12 hex digits" : "HMAC-SHA-256 with a random key that was not kept, first 12 hex digits" },
+    columns: profile.columns.map((c) => redactColumn(c, tag)),
+  };
+}

@@ -1,0 +1,85 @@
+/**
+ * Helpers for the level-table tests: a CLI runner that also knows `tailsift sql` (registered by
+ * the lead in cli.ts; added here when it is not yet), a tolerant deep comparison, and a DuckDB
+ * copy of a CSV made through the same text view scan reads.
+ */
+import { execFileSync } from "node:child_process";
+import path from "node:path";
+import { CommanderError } from "commander";
+import { expect } from "vitest";
+import { buildProgram, runCli } from "../../src/cli.js";
+import { addSqlCommand } from "../../src/commands/sqlCli.js";
+import type { Engine } from "../../src/engine/db.js";
+import { openSource } from "../../src/engine/source.js";
+import { quoteIdent, quoteLiteral } from "../../src/engine/sql.js";
+import { isTailsiftError } from "../../src/errors.js";
+import { collector } from "../helpers/tmp.js";
+
+export interface CliResult { code: number; out: string; err: string }
+
+/** Runs the CLI in-process; `sql` goes through addSqlCommand when cli.ts does not register it yet. */
+export async function cli(argv: string[]): Promise<CliResult> {
+  const c = collector();
+  const program = buildProgram(c.io);
+  if (argv[0] !== "sql" || program.commands.some((cmd) => cmd.name() === "sql")) {
+    const code = await runCli(argv, c.io);
+    return { code, out: c.out, err: c.err };
+  }
+  addSqlCommand(program, c.io);
+  let code = 0;
+  try {
+    await program.parseAsync(argv, { from: "user" });
+  } catch (err) {
+    if (isTailsiftError(err)) { c.io.stderr(`tailsift: ${err.message}\n`); code = err.exitCode; }
+    else if (err instanceof CommanderError) code = err.exitCode === 0 ? 0 : 2;
+    else throw err;
+  }
+  return { code, out: c.out, err: c.err };
+}
+
+/** The invented appointment log (sample-data/generate.mjs), small. */
+export function generateAppointments(file: string, rows: number, seed: number): string {
+  execFileSync(process.execPath, [path.resolve("sample-data/generate.mjs"), "--rows", String(rows), "--seed", String(seed), "--out", file]);
+  return file;
+}
+
+/** Loads a CSV into a DuckDB table through scan's own text view, so levels are the same text. */
+export async function loadAsTable(engine: Engine, csv: string, table: string): Promise<string[]> {
+  const source = await openSource(engine, [csv]);
+  await engine.run(`CREATE OR REPLACE TABLE ${quoteIdent(table)} AS SELECT * FROM ${source.view}`, "loading the test table");
+  return source.columns;
+}
+
+/** Runs a level query in DuckDB and writes the result (Parquet, or CSV with a header). */
+export async function writeLevels(engine: Engine, sql: string, file: string): Promise<void> {
+  const format = file.endsWith(".csv") ? "FORMAT csv, HEADER true" : "FORMAT parquet";
+  await engine.run(`COPY (${sql.trim().replace(/;$/, "")}) TO ${quoteLiteral(file)} (${format})`, "writing the level table");
+}
+
+/**
+ * Deep equality where numbers may differ by floating-point summation order only (relative
+ * 1e-9): DuckDB adds per-level sums in an unspecified order, so the last bits can differ.
+ */
+export function expectSame(actual: unknown, expected: unknown, where = "$"): void {
+  if (typeof expected === "number" && typeof actual === "number") {
+    const ok = Math.abs(actual - expected) <= 1e-9 * Math.max(1, Math.abs(actual), Math.abs(expected));
+    expect(ok, `${where}: ${actual} vs ${expected}`).toBe(true);
+    return;
+  }
+  if (Array.isArray(expected)) {
+    expect(Array.isArray(actual), `${where} is not an array`).toBe(true);
+    const a = actual as unknown[];
+    expect(a.length, `${where}.length`).toBe(expected.length);
+    expected.forEach((e, i) => expectSame(a[i], e, `${where}[${i}]`));
+    return;
+  }
+  if (expected !== null && typeof expected === "object") {
+    expect(actual !== null && typeof actual === "object", `${where} is not an object`).toBe(true);
+    const a = actual as Record<string, unknown>;
+    const e = expected as Record<string, unknown>;
+    expect(Object.keys(a).sort(), `${where} keys`).toEqual(Object.keys(e).sort());
+    for (const k of Object.keys(e)) expectSame(a[k], e[k], `${where}.${k}`);
+    return;
+  }
+  expect(actual, where).toEqual(expected);
+}
