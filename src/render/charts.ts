@@ -7,6 +7,8 @@ import { compile, type TopLevelSpec } from "vega-lite";
 import { View, parse, loader as vegaLoader, type Loader } from "vega";
 import type { ColumnProfile, ProfileTarget } from "../profile/types.js";
 import { TailsiftError } from "../errors.js";
+import { showControlCharacters } from "./escape.js";
+import { formatCompact, formatCount, formatShare } from "./format.js";
 import { Z_95, Z_998, coveragePoints, funnelHalfWidth, funnelLimitPoints } from "./chart-data.js";
 
 export { funnelLimitPoints } from "./chart-data.js";
@@ -14,27 +16,46 @@ export { funnelLimitPoints } from "./chart-data.js";
 /** A vega-lite spec as a plain object (inline data only). */
 export type ChartSpec = Record<string, unknown>;
 
-const WIDTH = 300;
-const HEIGHT = 190;
-const MAX_LABELS = 8;
+const WIDTH = 270;
+const HEIGHT = 180;
+const MAX_LABELS = 6;
 const LABEL_LENGTH = 24;
+const [INSIDE, OUTSIDE_95, OUTSIDE_998] = ["inside", "outside 95 %", "outside 99.8 %"];
 
 const BASE = {
   width: WIDTH,
   height: HEIGHT,
   config: {
     font: "system-ui, sans-serif",
-    title: { anchor: "start", fontSize: 13, subtitleFontSize: 11, subtitleColor: "#555" },
+    title: { anchor: "start", fontSize: 13 },
     axis: { labelFontSize: 10, titleFontSize: 11, titleFontWeight: "normal", gridColor: "#eee" },
     view: { stroke: "#ccc" },
     legend: { orient: "bottom", labelFontSize: 10, titleFontSize: 10 },
   },
 };
 
-/** How a level value is shown on a chart: null → "(missing)", shortened to 24 characters. */
+/**
+ * Tick values for a log axis from `min` to `max`: every integer when the range is short, else
+ * 1-2-5 steps (1, 2, 5, 10, 20, …) inside the range, thinned to powers of ten past eight ticks;
+ * the ends are added when fewer than two ticks fall inside.
+ */
+function logTicks(min: number, max: number): number[] {
+  const lo = Math.max(1, Math.ceil(min));
+  const hi = Math.floor(max);
+  if (hi - lo <= 11) return Array.from({ length: Math.max(0, hi - lo + 1) }, (_, i) => lo + i);
+  const steps: number[] = [];
+  for (let p = 10 ** Math.floor(Math.log10(lo)); p <= hi; p *= 10) {
+    for (const m of [1, 2, 5]) if (m * p >= lo && m * p <= hi) steps.push(m * p);
+  }
+  const ticks = steps.length > 8 ? steps.filter((t) => Number.isInteger(Math.log10(t))) : steps;
+  return ticks.length >= 2 ? ticks : [...new Set([lo, ...ticks, hi])];
+}
+
+/** How a level value is shown on a chart: null → "(missing)", controls as symbols, at most 24 characters. */
 function chartLabel(value: string | null): string {
   if (value === null) return "(missing)";
-  return value.length > LABEL_LENGTH ? `${value.slice(0, LABEL_LENGTH - 1)}…` : value;
+  const shown = showControlCharacters(value);
+  return shown.length > LABEL_LENGTH ? `${shown.slice(0, LABEL_LENGTH - 1)}…` : shown;
 }
 
 /**
@@ -50,7 +71,8 @@ export function coverageChartSpec(
   if (points.length === 0) return null;
   const maxRank = Math.max(2, ...points.map((p) => p.rank));
   const x = { field: "rank", type: "quantitative", title: "levels, most frequent first (log scale)",
-    scale: { type: "log", domain: [1, maxRank] } };
+    scale: { type: "log", domain: [1, maxRank], nice: false },
+    axis: { values: logTicks(1, maxRank), format: ",d" } };
   const layers: ChartSpec[] = [{
     data: { values: points },
     mark: { type: "line", color: "#3a6ea5", point: points.length <= 12, interpolate: "linear" },
@@ -67,20 +89,25 @@ export function coverageChartSpec(
       mark: { type: "rule", color: "#c0392b", strokeDash: [2, 2] },
       encoding: { x: { field: "rank", type: "quantitative" } } });
   }
-  const source = column.countOfCounts?.length ? "from the count-of-counts" : "from the coverage figures only";
-  return { ...BASE, description: "Coverage curve", layer: layers,
-    title: { text: "Coverage of rows by levels", subtitle: `share of non-missing rows, ${source}` } };
+  return { ...BASE, description: "Coverage curve", layer: layers, title: "Coverage of rows by levels" };
+}
+
+/** The levels to label: largest |z| first, ties by label, at most MAX_LABELS. */
+function mostExtreme<T extends { zScore: number; level: string }>(points: T[]): T[] {
+  const byLabel = (a: T, b: T): number => (a.level < b.level ? -1 : a.level > b.level ? 1 : 0);
+  return [...points].sort((a, b) => b.zScore - a.zScore || byLabel(a, b)).slice(0, MAX_LABELS);
 }
 
 /**
  * Funnel plot: each level's target rate (or mean) against its rows (log x), with 95 % and
  * 99.8 % control limits around the overall mean (Spiegelhalter 2005). Binary targets use the
  * binomial spread; continuous targets use `target.sd`, and have no limits without it. The most
- * extreme levels outside the limits are labelled. No funnel data → null.
+ * extreme levels outside the limits are labelled. No funnel data, or levels all of one size
+ * (e.g. an identifier: every level one row, nothing to compare) → null.
  */
 export function funnelChartSpec(column: ColumnProfile, target: ProfileTarget): ChartSpec | null {
   const funnel = (column.target?.funnel ?? []).filter((f) => f.rows >= 1 && Number.isFinite(f.rate));
-  if (funnel.length === 0) return null;
+  if (new Set(funnel.map((f) => f.rows)).size < 2) return null;
   const p0 = target.mean;
   const sd = target.kind === "continuous" ? target.sd : undefined;
   const hasLimits = target.kind === "binary" || sd !== undefined;
@@ -88,14 +115,19 @@ export function funnelChartSpec(column: ColumnProfile, target: ProfileTarget): C
     const half95 = hasLimits ? funnelHalfWidth(p0, f.rows, Z_95, sd) : null;
     const half998 = hasLimits ? funnelHalfWidth(p0, f.rows, Z_998, sd) : null;
     const distance = Math.abs(f.rate - p0);
-    const band = half998 !== null && distance > half998 ? "outside 99.8 %"
-      : half95 !== null && distance > half95 ? "outside 95 %" : "inside 95 %";
-    return { level: chartLabel(f.value), rows: f.rows, rate: f.rate, band, z: half95 ? (distance / half95) * Z_95 : 0 };
+    const band = half998 !== null && distance > half998 ? OUTSIDE_998
+      : half95 !== null && distance > half95 ? OUTSIDE_95 : INSIDE;
+    const value = f.value === null ? "(missing)" : showControlCharacters(f.value);
+    const rateText = target.kind === "binary" ? formatShare(f.rate) : formatCompact(f.rate);
+    return { level: chartLabel(f.value), description: `${value}: ${formatCount(f.rows)} rows, ${rateText} (${band})`,
+      rows: f.rows, rate: f.rate, band, zScore: half95 ? (distance / half95) * Z_95 : 0 };
   });
   const nMin = Math.min(...points.map((p) => p.rows));
   const nMax = Math.max(...points.map((p) => p.rows), nMin + 1);
-  const x = { field: "rows", type: "quantitative", title: "rows in level (log scale)", scale: { type: "log" } };
-  const rate = target.kind === "binary" ? { axis: { format: ".0%" } } : {};
+  const [xMin, xMax] = [Math.max(1, nMin / 1.2), nMax * 1.2];
+  const x = { field: "rows", type: "quantitative", title: "rows in level (log scale)",
+    scale: { type: "log", domain: [xMin, xMax], nice: false }, axis: { values: logTicks(xMin, xMax), format: ",d" } };
+  const rate = { scale: { zero: false }, ...(target.kind === "binary" ? { axis: { format: ".0%" } } : {}) };
   const yTitle = target.kind === "binary" ? "target rate" : "target mean";
   const layers: ChartSpec[] = [];
   if (hasLimits) {
@@ -106,26 +138,26 @@ export function funnelChartSpec(column: ColumnProfile, target: ProfileTarget): C
       ]));
     layers.push({ data: { values: limits }, mark: { type: "line", color: "#888", strokeWidth: 1 },
       encoding: { x: { ...x, field: "n" }, y: { field: "bound", type: "quantitative", title: yTitle, ...rate },
-        strokeDash: { field: "limit", type: "nominal", title: "control limit",
+        strokeDash: { field: "limit", type: "nominal", legend: null,
           scale: { domain: ["95 %", "99.8 %"], range: [[4, 3], [1, 0]] } },
         detail: { field: "side", type: "nominal" } } });
   }
   layers.push(
-    { data: { values: [{ mean: p0 }] }, mark: { type: "rule", color: "#444" },
+    { data: { values: [{ mean: p0 }] }, mark: { type: "rule", color: "#222", strokeWidth: 1.5 },
       encoding: { y: { field: "mean", type: "quantitative" } } },
-    { data: { values: points }, mark: { type: "point", filled: true, size: 28, opacity: 0.8 },
+    // Points carry no per-point ARIA text (up to a few hundred levels; the tables list them); the
+    // labelled levels below do.
+    { data: { values: points }, mark: { type: "point", filled: true, size: 28, opacity: 0.8, aria: false },
       encoding: { x, y: { field: "rate", type: "quantitative", title: yTitle, ...rate },
-        color: { field: "band", type: "nominal", title: "level",
-          scale: { domain: ["inside 95 %", "outside 95 %", "outside 99.8 %"], range: ["#8aa9c9", "#e0a030", "#c0392b"] } },
-        tooltip: [{ field: "level", type: "nominal" }, { field: "rows", type: "quantitative" },
-          { field: "rate", type: "quantitative", format: ".3f" }] } },
-    { data: { values: points.filter((p) => p.band !== "inside 95 %").sort((a, b) => b.z - a.z || a.level.localeCompare(b.level)).slice(0, MAX_LABELS) },
+        color: { field: "band", type: "nominal", title: null,
+          scale: { domain: [INSIDE, OUTSIDE_95, OUTSIDE_998], range: ["#8aa9c9", "#e0a030", "#c0392b"] } } } },
+    { data: { values: mostExtreme(points.filter((p) => p.band !== INSIDE)) },
       mark: { type: "text", align: "left", dx: 5, dy: -4, fontSize: 9, color: "#333" },
-      encoding: { x, y: { field: "rate", type: "quantitative" }, text: { field: "level", type: "nominal" } } },
+      encoding: { x, y: { field: "rate", type: "quantitative" }, text: { field: "level", type: "nominal" },
+        description: { field: "description", type: "nominal" } } },
   );
-  const what = hasLimits ? "95 % and 99.8 % limits around the overall mean" : "no limits: the target's spread is not in the profile";
   return { ...BASE, description: "Funnel plot", layer: layers,
-    title: { text: `Level ${target.kind === "binary" ? "rates" : "means"} against size`, subtitle: what } };
+    title: `Level ${target.kind === "binary" ? "rates" : "means"} against size` };
 }
 
 /**
@@ -139,9 +171,9 @@ export function collisionChartSpec(column: ColumnProfile, budget: number): Chart
   if (hashing === undefined || candidates.length === 0) return null;
   const values = [...candidates].sort((a, b) => a.width - b.width)
     .map((c) => ({ width: c.width, share: c.collisionRowShare, chosen: c.width === hashing.width ? "chosen width" : "candidate" }));
-  const x = { field: "width", type: "quantitative", title: "buckets (log2 scale)", scale: { type: "log", base: 2 } };
-  return { ...BASE, description: "Collision curve",
-    title: { text: "Hash collisions against width", subtitle: "share of rows in a bucket shared with another level" },
+  const x = { field: "width", type: "quantitative", title: "buckets (log2 scale)", scale: { type: "log", base: 2 },
+    axis: { values: values.map((v) => v.width), format: ",d", labelAngle: values.length > 6 ? -40 : 0 } };
+  return { ...BASE, description: "Collision curve", title: "Hash collisions against width",
     layer: [
       { data: { values }, mark: { type: "line", color: "#3a6ea5", point: true },
         encoding: { x, y: { field: "share", type: "quantitative", title: "colliding rows", axis: { format: ".1%" } } } },
@@ -153,10 +185,12 @@ export function collisionChartSpec(column: ColumnProfile, budget: number): Chart
     ] };
 }
 
-/** A vega loader that refuses every load: charts use inline data only. */
-function offlineLoader(): Loader {
-  const refuse = (what: string): Promise<never> =>
-    Promise.reject(new TailsiftError("render-offline", `chart tried to load '${what}'; charts use inline data only`));
+/** A vega loader that refuses every load (and notes it): charts use inline data only. */
+function offlineLoader(refused: string[]): Loader {
+  const refuse = (what: string): Promise<never> => {
+    refused.push(what);
+    return Promise.reject(new TailsiftError("render-offline", `chart tried to load '${what}'; charts use inline data only`));
+  };
   return Object.assign(vegaLoader(), {
     load: (uri: string) => refuse(uri),
     sanitize: (uri: string) => refuse(uri),
@@ -184,11 +218,15 @@ function quietLogger(errors: string[]) {
  */
 export async function chartSvg(spec: object): Promise<string> {
   const errors: string[] = [];
+  const refused: string[] = [];
   const logger = quietLogger(errors);
   const compiled = compile(spec as TopLevelSpec, { logger }).spec;
-  const view = new View(parse(compiled), { renderer: "none", loader: offlineLoader(), logger, logLevel: 0 });
+  const view = new View(parse(compiled), { renderer: "none", loader: offlineLoader(refused), logger, logLevel: 0 });
   try {
     const svg = await view.toSVG();
+    if (refused.length > 0) {
+      throw new TailsiftError("render-offline", `chart tried to load '${refused.join("', '")}'; charts use inline data only`);
+    }
     if (errors.length > 0) throw new TailsiftError("render-chart", `chart rendering failed: ${errors.join("; ")}`);
     if (/<script|<foreignObject|javascript:|\shref=/i.test(svg)) {
       throw new TailsiftError("render-chart", "chart SVG contains script or links; refusing to embed it");

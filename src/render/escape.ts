@@ -35,16 +35,23 @@ export function neutraliseFormula(cell: string): string {
   return FORMULA_START.test(cell) ? `'${cell}` : cell;
 }
 
+const CONTROL_NAMES: Record<string, string> = { "\n": "\\n", "\r": "\\r", "\t": "\\t" };
+
+/** C0 controls (U+0000–U+001F) and DEL: characters that can end a line or hide in plain text. */
+export const CONTROL_CHARACTERS = /[\u0000-\u001f\u007f]/g;
+
+/** The visible form of one control character: \n, \r, \t, else \x followed by two hex digits. */
+export function controlEscape(ch: string): string {
+  return CONTROL_NAMES[ch] ?? `\\x${ch.charCodeAt(0).toString(16).padStart(2, "0")}`;
+}
+
 /**
- * Makes control characters visible: C0 controls (tab, newline, …) become their Unicode
- * "Control Pictures" (U+2400 + code, e.g. newline → ␊) and DEL becomes ␡, so a value can never
- * end a line or a table row.
+ * Makes control characters visible as C-style escapes (newline → \n, tab → \t, ESC → \x1b),
+ * so a value can never end a line or a table row. Plain ASCII on purpose: the Unicode "Control
+ * Pictures" (␊) are missing from common fonts. Other text is unchanged.
  */
 export function showControlCharacters(text: string): string {
-  return text.replace(/[\u0000-\u001f\u007f]/g, (ch) => {
-    const code = ch.charCodeAt(0);
-    return String.fromCharCode(code === 0x7f ? 0x2421 : 0x2400 + code);
-  });
+  return text.replace(CONTROL_CHARACTERS, controlEscape);
 }
 
 /**
@@ -58,10 +65,12 @@ const MARKDOWN_PUNCTUATION = /[\\`*_[\]<>|&#~]/g;
 /**
  * Escapes text for Markdown prose and headings (CommonMark backslash escapes, spec section 2.4):
  * markup punctuation, including | and backticks, is backslash-escaped and control characters are
- * shown as symbols, so a value renders literally and cannot open HTML, code or links.
+ * shown as C-style escapes, so a value renders literally and cannot open HTML, code or links.
  */
 export function escapeMarkdownText(text: string): string {
-  return showControlCharacters(text).replace(MARKDOWN_PUNCTUATION, (ch) => `\\${ch}`);
+  // Escape first, then show controls: the backslash of \n must not itself be escaped, so a real
+  // newline reads \n in the source and a literal backslash-n reads \\n.
+  return showControlCharacters(text.replace(MARKDOWN_PUNCTUATION, (ch) => `\\${ch}`));
 }
 
 /**

@@ -49,11 +49,26 @@ export function paramsText(params: Record<string, unknown>): string {
   return entries.length === 0 ? "—" : entries.map(([k, v]) => `${k}=${paramValueText(v)}`).join(", ");
 }
 
+/** "(overridden by the user, was X)" when the decision was overridden, else "". */
+export function overrideText(rec: Recommendation): string {
+  if (!rec.overridden) return "";
+  const by = rec.overridden.by === "user" ? "the user" : rec.overridden.by;
+  return `(overridden by ${by}, was ${rec.overridden.from})`;
+}
+
 /** The decision in words, with the override when there is one. */
 export function decisionText(rec: Recommendation): string {
-  if (!rec.overridden) return rec.encoding;
-  const by = rec.overridden.by === "user" ? "the user" : rec.overridden.by;
-  return `${rec.encoding} (overridden by ${by}, was ${rec.overridden.from})`;
+  return rec.overridden ? `${rec.encoding} ${overrideText(rec)}` : rec.encoding;
+}
+
+/** Whether a column was profiled as levels (numeric, target and excluded columns were not). */
+export function profiledAsLevels(column: ColumnProfile): boolean {
+  return column.role !== "numeric" && column.role !== "target" && column.role !== "excluded";
+}
+
+/** Distinct levels for a summary table: "—" for columns not profiled as levels. */
+export function distinctText(column: ColumnProfile): string {
+  return profiledAsLevels(column) ? formatCount(column.distinct) : "—";
 }
 
 /** Rows with a share of the total: "1,234 (5.6 %)". */
@@ -61,8 +76,12 @@ function rowsWithShare(rows: number, total: number): string {
   return `${formatCount(rows)} (${formatShare(total > 0 ? rows / total : null)})`;
 }
 
-/** The key figures of one column, in the order both renderers show them. */
+/** The key figures of one column, in the order both renderers show them (rows and missing only
+ * for columns not profiled as levels). */
 export function keyFigures(column: ColumnProfile, profile: Profile): Figure[] {
+  if (!profiledAsLevels(column)) {
+    return [{ label: "rows", value: formatCount(column.rows) }, { label: "missing", value: rowsWithShare(column.missing, column.rows) }];
+  }
   const target = profile.settings.coverage ?? 0.95;
   const cover = column.coverage.find((c) => Math.abs(c.share - target) < 1e-9);
   const interval = column.unseenInterval
@@ -77,7 +96,7 @@ export function keyFigures(column: ColumnProfile, profile: Profile): Figure[] {
     { label: `levels covering ${formatShare(target, 0)} of rows`, value: formatCount(cover?.levels) },
   ];
   for (const rare of column.rare) {
-    figures.push({ label: `rare levels (threshold ${formatCount(rare.minRows)} rows)`,
+    figures.push({ label: `levels with at most ${formatCount(rare.minRows)} row${rare.minRows === 1 ? "" : "s"}`,
       value: `${formatCount(rare.levels)} levels, ${formatShare(rare.rowShare)} of rows` });
   }
   if (column.variants) {

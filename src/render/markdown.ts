@@ -8,7 +8,7 @@ import type { ColumnProfile, LevelFigure, Profile, ProfileTarget } from "../prof
 import { escapeMarkdownCell, escapeMarkdownText } from "./escape.js";
 import { formatCompact, formatCount, formatShare } from "./format.js";
 import {
-  STANDING_CAUTIONS, decisionText, headerFigures, inputNotes, keyFigures, levelText, paramValueText,
+  STANDING_CAUTIONS, decisionText, distinctText, headerFigures, inputNotes, keyFigures, levelText, paramValueText,
   paramsText, settingsFigures, type Figure,
 } from "./figures.js";
 
@@ -99,7 +99,7 @@ export function renderDecisionRecord(profile: Profile): string {
     out.push("No columns were profiled.", "");
   } else {
     out.push(...table(["column", "role", "distinct", "decision", "key parameters"], profile.columns.map((c) => [
-      c.name, c.role, formatCount(c.distinct), decisionText(c.recommendation), paramsText(c.recommendation.params),
+      c.name, c.role, distinctText(c), decisionText(c.recommendation), paramsText(c.recommendation.params),
     ])), "");
     out.push("## Columns", "");
     profile.columns.forEach((column, index) => out.push(...columnSection(column, index, profile)));
