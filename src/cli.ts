@@ -12,6 +12,7 @@ import { progressEnabled, startProgress } from "./commands/progress.js";
 import { runReport, runScan, type ScanCliOptions } from "./commands/scanCli.js";
 import { toolVersion } from "./commands/scan.js";
 import { addSqlCommand } from "./commands/sqlCli.js";
+import { addDriftCommand } from "./commands/driftCli.js";
 import type { Engine } from "./engine/db.js";
 import type { CliIO } from "./commands/io.js";
 import { isTailsiftError } from "./errors.js";
@@ -65,6 +66,7 @@ export function buildProgram(io: CliIO): Command {
     .option("--debug", "print the stack trace of an error")
     .action(async (profilePath: string, opts: { out: string }) => runReport(profilePath, opts.out, io));
 
+  addDriftCommand(program, io);
   addSqlCommand(program, io);
   return program;
 }

@@ -19,3 +19,5 @@ export { runCli, buildProgram } from "./cli.js";
 export { levelSql } from "./commands/sql.js";
 export { scanLevels } from "./commands/levels.js";
 export { redactProfile } from "./profile/redact.js";
+export { drift } from "./commands/drift.js";
+export type { DriftReport, DriftOptions } from "./commands/drift.js";

@@ -6,6 +6,7 @@
 import type { CountOfCounts } from "../stats/types.js";
 import type { Engine } from "./db.js";
 import { LEVEL_TABLE } from "./aggregate.js";
+import { sqlNumber } from "./sql.js";
 
 export const LEVEL_TOTALS = "tailsift_level_totals";
 
@@ -36,12 +37,27 @@ export async function summariseLevels(engine: Engine, columnCount: number, top: 
     `SELECT col, rows::DOUBLE AS rows FROM ${LEVEL_TOTALS} WHERE level IS NULL`, "counting missing values");
   for (const r of missing) { const s = out[r.col]; if (s) s.missing = r.rows; }
   const tops = await engine.rows<LevelRow>(
-    `SELECT col, level, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2 FROM ${LEVEL_TOTALS}
-     WHERE level IS NOT NULL
-     QUALIFY row_number() OVER (PARTITION BY col ORDER BY rows DESC, level) <= ${Math.max(0, Math.floor(top))}
-     ORDER BY col, rows DESC, level`, "finding the top levels");
+    topPerColumnSql(columnCount, "level IS NOT NULL", "rows DESC, level", Math.max(0, Math.floor(top))),
+    "finding the top levels");
   for (const r of tops) out[r.col]?.top.push(r);
   return out;
+}
+
+const LEVEL_FIELDS = "col, level, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2";
+
+/**
+ * The first `limit` levels of every column by `order`. A union of per-column ORDER BY … LIMIT
+ * queries lets DuckDB keep a small heap per column (about 15× faster than a window over all
+ * levels on 2M levels); past 200 columns one windowed query is used instead.
+ */
+function topPerColumnSql(columnCount: number, where: string, order: string, limit: number): string {
+  if (columnCount <= 200) {
+    const parts = Array.from({ length: columnCount }, (_, col) =>
+      `(SELECT ${LEVEL_FIELDS} FROM ${LEVEL_TOTALS} WHERE col = ${col} AND ${where} ORDER BY ${order} LIMIT ${limit})`);
+    return `SELECT * FROM (${parts.join(" UNION ALL ")}) ORDER BY col, ${order}`;
+  }
+  return `SELECT ${LEVEL_FIELDS} FROM ${LEVEL_TOTALS} WHERE ${where}
+    QUALIFY row_number() OVER (PARTITION BY col ORDER BY ${order}) <= ${limit} ORDER BY col, ${order}`;
 }
 
 export interface VariantSummary { col: number; groups: number; levels: number; rows: number; examples: string[][] }
@@ -50,12 +66,17 @@ export interface VariantSummary { col: number; groups: number; levels: number; r
  * Levels that collapse to one when case-folded, trimmed and inner whitespace collapsed:
  * counts per column and up to five example groups (the largest), four spellings each.
  */
-export async function findVariants(engine: Engine): Promise<Map<number, VariantSummary>> {
+export async function findVariants(engine: Engine, cols?: readonly number[]): Promise<Map<number, VariantSummary>> {
+  if (cols && cols.length === 0) return new Map();
+  const only = cols ? ` AND col IN (${cols.map((c) => sqlNumber(c)).join(", ")})` : "";
   const rows = await engine.rows<{ col: number; groups: number; levels: number; rows: number; examples: string[][] }>(
-    `WITH g AS (
-       SELECT col, regexp_replace(lower(trim(level)), '\\s+', ' ', 'g') AS key, count(*) AS levels, sum(rows) AS rows,
-              list(level ORDER BY rows DESC, level)[1:4] AS spellings
-       FROM ${LEVEL_TOTALS} WHERE level IS NOT NULL GROUP BY col, key HAVING count(*) > 1)
+    `WITH k AS (
+       SELECT col, level, rows, regexp_replace(lower(trim(level)), '\\s+', ' ', 'g') AS key
+       FROM ${LEVEL_TOTALS} WHERE level IS NOT NULL${only}),
+     dup AS (SELECT col, key FROM k GROUP BY col, key HAVING count(*) > 1),
+     g AS (
+       SELECT k.col, k.key, count(*) AS levels, sum(k.rows) AS rows, list(k.level ORDER BY k.rows DESC, k.level)[1:4] AS spellings
+       FROM k JOIN dup ON k.col = dup.col AND k.key = dup.key GROUP BY k.col, k.key)
      SELECT col, count(*)::DOUBLE AS groups, sum(levels)::DOUBLE AS levels, sum(rows)::DOUBLE AS rows,
             list(spellings ORDER BY rows DESC, key)[1:5] AS examples
      FROM g GROUP BY col`, "looking for spelling variants");
@@ -105,10 +126,7 @@ export async function streamContinuousLevels(engine: Engine, onRows: (rows: Inte
 }
 
 /** Up to `limit` levels per column for the funnel plot (the largest by target rows). */
-export async function funnelLevels(engine: Engine, limit: number): Promise<LevelRow[]> {
-  return engine.rows<LevelRow>(
-    `SELECT col, level, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2 FROM ${LEVEL_TOTALS}
-     WHERE n_y > 0 AND level IS NOT NULL
-     QUALIFY row_number() OVER (PARTITION BY col ORDER BY n_y DESC, level) <= ${Math.floor(limit)}
-     ORDER BY col, n_y DESC, level`, "choosing levels for the funnel plot");
+export async function funnelLevels(engine: Engine, columnCount: number, limit: number): Promise<LevelRow[]> {
+  return engine.rows<LevelRow>(topPerColumnSql(columnCount, "n_y > 0 AND level IS NOT NULL", "n_y DESC, level", Math.floor(limit)),
+    "choosing levels for the funnel plot");
 }

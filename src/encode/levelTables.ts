@@ -1,0 +1,58 @@
+/**
+ * encode/levelTables: the level table of the input being encoded,
+ *   tailsift_enc_input(name, level, fold, rows, n_y, sum_y)   (level NULL = missing)
+ * one row per encoded column, level and fold. It holds the training sums of an out-of-fold
+ * encoding and the counts of the summary (missing, unseen, fallback rows). When the input is the
+ * extract the plan was made from (same fingerprint), the plan's levels.parquet IS this table and
+ * no pass is made; otherwise one GROUP BY pass (the scan's own query) builds it.
+ */
+import { buildLevelTable, LEVEL_TABLE } from "../engine/aggregate.js";
+import type { Engine } from "../engine/db.js";
+import { quoteLiteral, sqlNumber } from "../engine/sql.js";
+import type { TargetSpec } from "../engine/target.js";
+import { TailsiftError } from "../errors.js";
+
+export const INPUT_LEVELS = "tailsift_enc_input";
+
+const EMPTY = `SELECT NULL::VARCHAR AS name, NULL::VARCHAR AS level, 0::INTEGER AS fold, 0::DOUBLE AS rows, 0::DOUBLE AS n_y, 0::DOUBLE AS sum_y LIMIT 0`;
+
+/** Loads the plan's per-fold level table (levels.parquet) for `names` as the input's table. */
+export async function inputLevelsFromPlan(engine: Engine, levelsPath: string, names: readonly string[]): Promise<void> {
+  const select = names.length === 0 ? EMPTY
+    : `SELECT "column" AS name, level, fold::INTEGER AS fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y::DOUBLE AS sum_y
+       FROM read_parquet(${quoteLiteral(levelsPath)}) WHERE "column" IN (${names.map(quoteLiteral).join(", ")})`;
+  await engine.run(`CREATE OR REPLACE TEMP TABLE ${INPUT_LEVELS} AS ${select}`, `reading the plan's level table '${levelsPath}'`);
+}
+
+export interface PassSpec {
+  view: string;
+  /** Columns the fold hash reads (the plan's foldColumns in training; any one column otherwise). */
+  identity: readonly string[];
+  folds: number;
+  seed: number;
+  target?: TargetSpec;
+}
+
+/**
+ * One pass over the input (engine/aggregate's GROUPING SETS query) for `names`, renamed by
+ * column name. Returns the input's row count.
+ * @throws TailsiftError when target values do not fit the plan's target kind, or (with a
+ *   target) when no row has a usable target value.
+ */
+export async function inputLevelsFromPass(engine: Engine, names: readonly string[], pass: PassSpec, doing: string): Promise<number> {
+  const totals = await buildLevelTable(engine, {
+    view: pass.view, identityColumns: pass.identity, levelColumns: names, countColumns: [],
+    ...(pass.target ? { target: pass.target } : {}), folds: pass.folds, seed: pass.seed,
+  }, doing);
+  if (pass.target && totals.badTargets > 0) {
+    throw new TailsiftError("bad_target", `target '${pass.target.column}': ${totals.badTargets} values do not fit the plan's ${pass.target.kind} target${pass.target.positive !== undefined ? ` (positive '${pass.target.positive}')` : ""}; clean them or rescan`);
+  }
+  if (pass.target && totals.rows > 0 && totals.targetRows === 0) {
+    throw new TailsiftError("target_empty", `target '${pass.target.column}' has no values in the input; --for training needs them`);
+  }
+  const select = names.length === 0 ? EMPTY
+    : `SELECT n.name, l.level, l.fold, l.rows::DOUBLE AS rows, l.n_y::DOUBLE AS n_y, l.sum_y
+       FROM ${LEVEL_TABLE} l JOIN (VALUES ${names.map((c, i) => `(${sqlNumber(i)}, ${quoteLiteral(c)})`).join(", ")}) n(col, name) ON l.col = n.col`;
+  await engine.run(`CREATE OR REPLACE TEMP TABLE ${INPUT_LEVELS} AS ${select}`, "naming the input's level table");
+  return totals.rows;
+}

@@ -1,0 +1,43 @@
+/**
+ * encode/mappingFiles: the mappings written beside the output (`OUT.mappings/`), so a model
+ * served elsewhere can reproduce each encoding without tailsift:
+ *  - `mappings.json`: one entry per encoded column — encoding, output columns, parameters
+ *    (levels, width, salt, m, p …), the fallback rule and the file holding its table, plus the
+ *    fold settings of a training run;
+ *  - `<column>.parquet` (frequency, codes, target): (level, rows, …, value), one row per level;
+ *    a training run's target encoding adds `<column>.folds.parquet` (level, fold, n_other,
+ *    sum_other, prior_other, value) — the out-of-fold values the training rows received.
+ * File names keep letters, digits, '.', '_' and '-' of the column name (others become '_'),
+ * with `-<n>` appended when two columns would share a name.
+ */
+import fs from "node:fs";
+import path from "node:path";
+import type { Engine } from "../engine/db.js";
+import { quoteLiteral } from "../engine/sql.js";
+
+export const MANIFEST_NAME = "mappings.json";
+
+/** Chooses a distinct, filesystem-safe base name per column. */
+export function mappingBaseNames(columns: readonly string[]): string[] {
+  const used = new Set<string>();
+  return columns.map((c, i) => {
+    let base = c.replace(/[^A-Za-z0-9._-]/g, "_");
+    if (base === "" || base === "." || base === ".." || base.toLowerCase() === MANIFEST_NAME.replace(".json", "")) base = `_${base}`;
+    if (used.has(base.toLowerCase())) base = `${base}-${i}`;
+    used.add(base.toLowerCase());
+    return base;
+  });
+}
+
+/** Writes `table` as Parquet to `dir/file`, ordered by level (and fold) for a stable file. */
+export async function writeMappingTable(engine: Engine, table: string, dir: string, file: string, perFold: boolean): Promise<void> {
+  const order = perFold ? "level, fold" : "level";
+  await engine.run(
+    `COPY (SELECT * FROM ${table} ORDER BY ${order}) TO ${quoteLiteral(path.join(dir, file))} (FORMAT parquet, COMPRESSION zstd)`,
+    `writing the mapping '${file}'`);
+}
+
+/** Writes the manifest (pretty JSON) into `dir`. */
+export function writeManifest(dir: string, manifest: unknown): void {
+  fs.writeFileSync(path.join(dir, MANIFEST_NAME), `${JSON.stringify(manifest, null, 2)}\n`);
+}

@@ -1,0 +1,67 @@
+/**
+ * encode/params: reads a plan column's `recommendation` into a checked EncodingSpec. The plan is
+ * a file a user may have edited, so every parameter is checked and a bad one is a TailsiftError
+ * (exit 2) naming the column and the parameter.
+ */
+import { TailsiftError } from "../errors.js";
+import { HASH_NAME } from "../engine/hashing.js";
+import type { ColumnProfile } from "../profile/types.js";
+import type { EncodingSpec } from "./types.js";
+
+function bad(column: string, what: string): TailsiftError {
+  return new TailsiftError("bad_plan", `plan column '${column}': ${what}; rescan or fix the plan`);
+}
+
+function stringList(column: string, value: unknown, name: string): string[] {
+  if (!Array.isArray(value) || !value.every((v) => typeof v === "string")) throw bad(column, `params.${name} must be a list of level texts`);
+  return value as string[];
+}
+
+function textOrNull(column: string, value: unknown, name: string): string | null {
+  if (value === null || typeof value === "string") return value;
+  throw bad(column, `params.${name} must be a level text or null`);
+}
+
+function positiveInteger(column: string, value: unknown, name: string): number {
+  if (typeof value !== "number" || !Number.isInteger(value) || value < 1 || value > 2 ** 53) {
+    throw bad(column, `params.${name} must be a positive integer`);
+  }
+  return value;
+}
+
+/**
+ * The encoding a plan column asks for: "drop", "keep" (pass through) or a checked spec.
+ * Edge cases: indicator levels may be null (null = the missing level); one-hot with no levels
+ * writes no column; codes without `tableSize` number every level; target-kfold needs a finite
+ * weight m ≥ 0 (0 = raw means, with the prior used where a level has no rows).
+ * @throws TailsiftError `bad_plan` for a missing or malformed parameter or an unknown encoding.
+ */
+export function encodingSpec(column: ColumnProfile): EncodingSpec | "drop" | "keep" {
+  const { encoding, params } = column.recommendation;
+  const name = column.name;
+  switch (encoding) {
+    case "drop": return "drop";
+    case "keep": return "keep";
+    case "indicator": return { encoding, one: textOrNull(name, params.one, "one"), zero: textOrNull(name, params.zero, "zero") };
+    case "one-hot": return { encoding, levels: stringList(name, params.levels, "levels") };
+    case "pooled-one-hot": {
+      const other = params.other ?? "other";
+      if (typeof other !== "string") throw bad(name, "params.other must be text");
+      return { encoding, keep: stringList(name, params.keep, "keep"), other };
+    }
+    case "hashing": {
+      if (params.hash !== undefined && params.hash !== HASH_NAME) throw bad(name, `params.hash '${String(params.hash)}' is not supported (only ${HASH_NAME})`);
+      const salt = params.salt ?? "";
+      if (typeof salt !== "string") throw bad(name, "params.salt must be text");
+      return { encoding, width: positiveInteger(name, params.width, "width"), salt };
+    }
+    case "frequency": return { encoding };
+    case "codes": return { encoding, tableSize: params.tableSize === undefined ? 2 ** 53 : positiveInteger(name, params.tableSize, "tableSize") };
+    case "target-kfold": {
+      const m = params.weight;
+      if (typeof m !== "number" || !Number.isFinite(m) || m < 0) throw bad(name, "params.weight (the prior weight m) must be a number ≥ 0");
+      return { encoding, weight: m };
+    }
+    default: throw bad(name, `unknown encoding '${String(encoding)}'`);
+  }
+}

@@ -1,0 +1,72 @@
+/**
+ * encode/targetMaps: the mapping tables of target encoding (m-estimate, Cestnik 1990: a level's
+ * value is (sum + m·prior)/(n + m), n = rows with a target, sum = their target total), built in
+ * DuckDB from level sums, never from rows:
+ *  - full-data (scoring, and the mapping file of a training run): one row per level,
+ *    prior p = the target mean of the sums used (scoring: the plan's target mean);
+ *  - out-of-fold (training): one row per (level, fold) for EVERY level and fold, from the other
+ *    folds' sums, prior = the other folds' target mean (a fold holding every target row falls
+ *    back to the overall mean); a level with no target rows in the other folds and m = 0 gets
+ *    the other folds' prior.
+ * Formulas as in stats/mEstimate.ts and engine/leakage.ts (the scan's out-of-fold score).
+ */
+import type { Engine } from "../engine/db.js";
+import { quoteLiteral, sqlNumber } from "../engine/sql.js";
+
+export const mapTable = (i: number): string => `tailsift_enc_map_${i}`;
+export const fullTable = (i: number): string => `tailsift_enc_full_${i}`;
+/** DuckDB variable: the prior p of column i (DOUBLE). */
+export const priorVar = (i: number): string => `tailsift_enc_p_${i}`;
+/** DuckDB variable: the other-folds prior of column i, a list indexed by fold + 1. */
+export const foldPriorVar = (i: number): string => `tailsift_enc_fold_prior_${i}`;
+
+/** A double as exact SQL (the text round-trips; DuckDB parses it as DOUBLE, not DECIMAL). */
+export const sqlDouble = (x: number): string => `CAST(${quoteLiteral(sqlNumber(x))} AS DOUBLE)`;
+
+const smoothed = (sum: string, n: string, m: string, prior: string) =>
+  `CASE WHEN ${n} + ${m} <= 0 THEN ${prior} ELSE (${sum} + ${m} * ${prior}) / (${n} + ${m}) END`;
+
+/**
+ * Sets p (`priorVar(i)`) to `prior` (SQL) and creates `fullTable(i)`(level, rows, n_y, sum_y,
+ * value) from `from` (a level table with name, level, rows, n_y, sum_y; folds are summed).
+ */
+export async function fullTargetMap(engine: Engine, i: number, from: string, name: string, m: number, prior: string): Promise<void> {
+  await engine.run(`SET VARIABLE ${priorVar(i)} = (${prior})::DOUBLE`, `setting the prior of '${name}'`);
+  const p = `getvariable(${quoteLiteral(priorVar(i))})`;
+  await engine.run(
+    `CREATE OR REPLACE TEMP TABLE ${fullTable(i)} AS
+     SELECT level, sum(rows)::BIGINT AS rows, sum(n_y)::BIGINT AS n_y, sum(sum_y)::DOUBLE AS sum_y,
+            ${smoothed("sum(sum_y)", "sum(n_y)", sqlDouble(m), p)} AS value
+     FROM ${from} WHERE name = ${quoteLiteral(name)} AND level IS NOT NULL GROUP BY level`,
+    `building the target mapping of '${name}'`);
+}
+
+/** The training input's target mean for one column's sums (SQL, for `fullTargetMap`). */
+export const inputMeanSql = (from: string, name: string): string =>
+  `SELECT sum(sum_y) / sum(n_y) FROM ${from} WHERE name = ${quoteLiteral(name)}`;
+
+/**
+ * Creates `mapTable(i)`(level, fold, n_other, sum_other, prior_other, value), dense over every
+ * level × fold, and the list variable `foldPriorVar(i)` of the other-folds priors.
+ */
+export async function outOfFoldMap(engine: Engine, i: number, from: string, name: string, m: number, folds: number): Promise<void> {
+  const col = quoteLiteral(name);
+  const priors = `tailsift_enc_fold_prior_t${i}`;
+  await engine.run(
+    `CREATE OR REPLACE TEMP TABLE ${priors} AS
+     WITH f AS (SELECT fold, sum(n_y) AS fn, sum(sum_y) AS fs FROM ${from} WHERE name = ${col} GROUP BY fold),
+          g AS (SELECT sum(n_y) AS tn, sum(sum_y) AS ts FROM ${from} WHERE name = ${col}),
+          k AS (SELECT range::INTEGER AS fold FROM range(${sqlNumber(folds)}))
+     SELECT k.fold, CASE WHEN g.tn - coalesce(f.fn, 0) > 0 THEN (g.ts - coalesce(f.fs, 0)) / (g.tn - coalesce(f.fn, 0))
+                         ELSE g.ts / g.tn END AS prior
+     FROM k LEFT JOIN f USING (fold) CROSS JOIN g`, `computing the other-folds priors of '${name}'`);
+  await engine.run(`SET VARIABLE ${foldPriorVar(i)} = (SELECT list(prior ORDER BY fold) FROM ${priors})`, `setting the fold priors of '${name}'`);
+  await engine.run(
+    `CREATE OR REPLACE TEMP TABLE ${mapTable(i)} AS
+     WITH l AS (SELECT level, fold, sum(n_y) AS n, sum(sum_y) AS s FROM ${from} WHERE name = ${col} AND level IS NOT NULL GROUP BY ALL),
+          t AS (SELECT level, sum(n) AS tn, sum(s) AS ts FROM l GROUP BY level),
+          o AS (SELECT t.level, p.fold, t.tn - coalesce(l.n, 0) AS n_other, t.ts - coalesce(l.s, 0) AS sum_other, p.prior AS prior_other
+                FROM t CROSS JOIN ${priors} p LEFT JOIN l ON l.level = t.level AND l.fold = p.fold)
+     SELECT level, fold, n_other, sum_other, prior_other, ${smoothed("sum_other", "n_other", sqlDouble(m), "prior_other")} AS value FROM o`,
+    `building the out-of-fold mapping of '${name}'`);
+}
