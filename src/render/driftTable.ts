@@ -38,7 +38,7 @@ function summary(r: DriftReport): string[] {
 
 /** The terminal view: summary lines, one table row per column, then the reasons of non-ok columns. */
 export function renderDriftTable(r: DriftReport): string {
-  const table = new Table({ head: HEAD, style: { head: [], border: [] } });
+  const table = new Table({ head: HEAD, style: { head: [], border: [], compact: true } });
   for (const c of r.columns) table.push(cells(c).map(showControlCharacters));
   const raised = r.columns.filter((c) => c.status !== "ok");
   const reasons = raised.flatMap((c) => [`${c.name} (${c.status}):`, ...c.reasons.map((x) => `  - ${x}`)]).map(showControlCharacters);
