@@ -13,6 +13,7 @@ import { runReport, runScan, type ScanCliOptions } from "./commands/scanCli.js";
 import { toolVersion } from "./commands/scan.js";
 import { addSqlCommand } from "./commands/sqlCli.js";
 import { addDriftCommand } from "./commands/driftCli.js";
+import { addEncodeCommand } from "./commands/encodeCli.js";
 import type { Engine } from "./engine/db.js";
 import type { CliIO } from "./commands/io.js";
 import { isTailsiftError } from "./errors.js";
@@ -66,6 +67,7 @@ export function buildProgram(io: CliIO): Command {
     .option("--debug", "print the stack trace of an error")
     .action(async (profilePath: string, opts: { out: string }) => runReport(profilePath, opts.out, io));
 
+  addEncodeCommand(program, io);
   addDriftCommand(program, io);
   addSqlCommand(program, io);
   return program;

@@ -21,3 +21,4 @@ export { scanLevels } from "./commands/levels.js";
 export { redactProfile } from "./profile/redact.js";
 export { drift } from "./commands/drift.js";
 export type { DriftReport, DriftOptions } from "./commands/drift.js";
+export { encode } from "./commands/encode.js";

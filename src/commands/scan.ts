@@ -6,6 +6,10 @@
 import { createRequire } from "node:module";
 import { DEFAULT_POLICY, hashWidths, type AdvicePolicy } from "../advice/policy.js";
 import { recommend } from "../advice/recommend.js";
+import { applyEvidence } from "../evidence/applyEvidence.js";
+import { evidenceFor } from "../evidence/evidenceFor.js";
+import { applyHierarchy } from "../hierarchy/applyHierarchy.js";
+import { hierarchyFor } from "../hierarchy/hierarchyFor.js";
 import { applyOverrides } from "../advice/overrides.js";
 import { buildLevelTable, FOLD_HASH_NAME, type PassTotals } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
@@ -153,9 +157,21 @@ export async function adviseFromLevelTable(engine: Engine, ctx: LevelTableContex
   if (target) await addTargetFigures(engine, columns, summaries.map((s) => s.top), target, top);
   else await addHashing(engine, columns, policy);
 
+  const hierarchy = await hierarchyFor(engine, columns, policy);
   for (const column of columns) {
     column.topLevels = column.topLevels.slice(0, top);
     column.recommendation = recommend(column, policy, target);
+  }
+  for (const [col, h] of hierarchy) columns[col]!.hierarchy = h;
+  if (target) {
+    const evidence = await evidenceFor(engine, columns, target, policy, hierarchy);
+    for (const [col, e] of evidence) {
+      const column = columns[col]!;
+      column.evidence = e;
+      column.recommendation = applyEvidence(column, e, policy);
+    }
+  } else {
+    for (const [col, h] of hierarchy) columns[col]!.recommendation = applyHierarchy(columns[col]!, h, policy);
   }
   if (options.decide) applyOverrides(columns, options.decide, policy);
   if (options.levelTableOut) await writeLevelTable(engine, levelColumns, options.levelTableOut);

@@ -1,13 +1,15 @@
 /**
  * encode/columnMaps: builds, per encoded column, the mapping tables its encoding reads (see
  * targetMaps.ts and countMaps.ts) and says which table the output query looks up and which
- * tables are written as mapping files. Encodings without a table (indicator, one-hot, pooled
- * one-hot, hashing) return null: their parameters alone define them.
+ * tables are written as mapping files (target encoding over a hierarchy: encode/structureMaps).
+ * Encodings without a table (indicator, one-hot, pooled one-hot, hashing) return null: their
+ * parameters alone define them.
  */
 import type { Engine } from "../engine/db.js";
-import { PLAN_LEVELS } from "../drift/planFiles.js";
 import { codesMap, frequencyMap } from "./countMaps.js";
-import { INPUT_LEVELS } from "./levelTables.js";
+import { INPUT_LEVELS, PLAN_LEVELS } from "./levelTables.js";
+import { foldFile, mainFile, type MappingFile } from "./mappingFiles.js";
+import { buildStructureMap } from "./structureMaps.js";
 import { fullTable, fullTargetMap, inputMeanSql, mapTable, outOfFoldMap, sqlDouble } from "./targetMaps.js";
 import type { EncodedColumn, EncodeMode } from "./types.js";
 
@@ -16,9 +18,12 @@ export interface ColumnMap {
   table: string;
   fields: string[];
   perFold: boolean;
-  /** Tables written beside the output: file name suffix ("" = `<column>.parquet`) and table. */
-  files: { suffix: string; table: string }[];
+  /** Tables written beside the output (see MappingFile). */
+  files: MappingFile[];
+  /** Backoff / hierarchical: the per-level table the grouping counts read (encode/structureCounts). */
+  levelTable?: string;
 }
+
 
 export interface MapContext {
   mode: EncodeMode;
@@ -34,22 +39,20 @@ export async function buildColumnMap(engine: Engine, column: EncodedColumn, ctx:
   if (spec.encoding === "frequency" || spec.encoding === "codes") {
     if (spec.encoding === "frequency") await frequencyMap(engine, i, name);
     else await codesMap(engine, i, name, spec.tableSize);
-    return { table: mapTable(i), fields: ["value"], perFold: false, files: [{ suffix: "", table: mapTable(i) }] };
+    return { table: mapTable(i), fields: ["value"], perFold: false, files: [mainFile(mapTable(i))] };
   }
   if (spec.encoding !== "target-kfold") return null;
+  if (spec.structure) return buildStructureMap(engine, column, spec.structure, ctx);
   const m = spec.weight;
   if (ctx.mode === "scoring") {
     if (ctx.targetMean === undefined) throw new Error("target encoding without a plan target");
     await fullTargetMap(engine, i, PLAN_LEVELS, name, m, sqlDouble(ctx.targetMean));
-    return { table: fullTable(i), fields: ["value"], perFold: false, files: [{ suffix: "", table: fullTable(i) }] };
+    return { table: fullTable(i), fields: ["value"], perFold: false, files: [mainFile(fullTable(i))] };
   }
   await fullTargetMap(engine, i, INPUT_LEVELS, name, m, inputMeanSql(INPUT_LEVELS, name));
   if (ctx.leaveOneOut) {
-    return { table: fullTable(i), fields: ["n_y", "sum_y"], perFold: false, files: [{ suffix: "", table: fullTable(i) }] };
+    return { table: fullTable(i), fields: ["n_y", "sum_y"], perFold: false, files: [mainFile(fullTable(i))] };
   }
   await outOfFoldMap(engine, i, INPUT_LEVELS, name, m, ctx.folds);
-  return {
-    table: mapTable(i), fields: ["value"], perFold: true,
-    files: [{ suffix: "", table: fullTable(i) }, { suffix: ".folds", table: mapTable(i) }],
-  };
+  return { table: mapTable(i), fields: ["value"], perFold: true, files: [mainFile(fullTable(i)), foldFile(mapTable(i))] };
 }

@@ -10,7 +10,7 @@
  */
 import type { Engine } from "../engine/db.js";
 import { quoteLiteral, sqlNumber } from "../engine/sql.js";
-import { PLAN_LEVELS } from "../drift/planFiles.js";
+import { PLAN_LEVELS } from "./levelTables.js";
 import { mapTable } from "./targetMaps.js";
 
 /** Creates `mapTable(i)`(level, rows, value DOUBLE) of training shares. */

@@ -5,9 +5,9 @@
  */
 import type { Engine } from "../engine/db.js";
 import { quoteLiteral } from "../engine/sql.js";
-import { PLAN_LEVELS } from "../drift/planFiles.js";
-import { INPUT_LEVELS } from "./levelTables.js";
+import { INPUT_LEVELS, PLAN_LEVELS } from "./levelTables.js";
 import type { ColumnMap } from "./columnMaps.js";
+import { structureFallbackCondition, structureFallbackRule } from "./structureCounts.js";
 import { sqlDouble } from "./targetMaps.js";
 import type { EncodedColumn, EncodeMode } from "./types.js";
 
@@ -29,6 +29,7 @@ function fallbackCondition(column: EncodedColumn, mode: EncodeMode, leaveOneOut:
     case "frequency": return "l.level IS NOT NULL AND m.level IS NULL";
     case "codes": return "l.level IS NOT NULL AND coalesce(m.value, 0) = 0";
     case "target-kfold":
+      if (spec.structure) return structureFallbackCondition(spec.structure, mode);
       if (mode === "scoring") return "l.level IS NOT NULL AND m.level IS NULL";
       if (leaveOneOut) return `l.level IS NOT NULL AND (m.level IS NULL OR m.n_y - 1 + ${sqlDouble(spec.weight)} <= 0)`;
       return "l.level IS NOT NULL AND (m.level IS NULL OR m.n_other <= 0)";
@@ -37,7 +38,8 @@ function fallbackCondition(column: EncodedColumn, mode: EncodeMode, leaveOneOut:
 
 /** What missing, unseen and fallback rows receive, in words. */
 export function fallbackRule(column: EncodedColumn, mode: EncodeMode, leaveOneOut: boolean): string {
-  switch (column.spec.encoding) {
+  const spec = column.spec;
+  switch (spec.encoding) {
     case "indicator": return "missing and other levels → 0";
     case "one-hot": return "missing, unseen and unlisted levels → all columns 0";
     case "pooled-one-hot": return "pooled and unseen levels → the other column; missing → all columns 0";
@@ -45,9 +47,10 @@ export function fallbackRule(column: EncodedColumn, mode: EncodeMode, leaveOneOu
     case "frequency": return "missing and unseen → share 0";
     case "codes": return "missing, pooled and unseen → code 0";
     case "target-kfold":
+      if (spec.structure) return structureFallbackRule(spec.structure, mode);
       if (mode === "scoring") return "missing and unseen → prior mean p";
-      if (leaveOneOut) return "missing → p; levels with n − 1 + m ≤ 0 → p";
-      return "missing and levels without target rows in the other folds → the other folds' mean";
+      if (leaveOneOut) return "missing and levels with n − 1 + m ≤ 0 → p";
+      return "missing, or no target rows of the level in other folds → other folds' mean";
   }
 }
 

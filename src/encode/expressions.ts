@@ -10,7 +10,9 @@
  *  - target (training, k-fold): the row's (level, fold) out-of-fold value; missing → the
  *    other folds' prior of the row's fold;
  *  - target (training, leave-one-out): (sum − y + m·p)/(n − 1 + m) from the level's full sums,
- *    n − 1 + m ≤ 0 → p; a row without a target value gets (sum + m·p)/(n + m); missing → p.
+ *    n − 1 + m ≤ 0 → p; a row without a target value gets (sum + m·p)/(n + m); missing → p;
+ *  - target over a hierarchy (backoff, hierarchical prior): as target k-fold and scoring — the
+ *    mapping covers every plan and input level, so only missing rows take the fallback.
  */
 import { bucketSql } from "../engine/hashing.js";
 import { quoteIdent, quoteLiteral } from "../engine/sql.js";
@@ -41,11 +43,13 @@ function lookupOf(column: EncodedColumn, ctx: ExprContext): LookupRef {
   return ctx.lookup;
 }
 
-function targetSql(column: EncodedColumn, m: number, ctx: ExprContext): string {
+/** Target encoding; `m` is the flat weight (null: backoff or hierarchical, no leave-one-out form). */
+function targetSql(column: EncodedColumn, m: number | null, ctx: ExprContext): string {
   const look = lookupOf(column, ctx);
   const p = variable(priorVar(column.index));
   if (ctx.mode === "scoring") return `coalesce(${look.value("value")}, ${p})`;
   if (!ctx.leaveOneOut) return `coalesce(${look.value("value")}, ${variable(foldPriorVar(column.index))}[${ref(FOLD_FIELD)} + 1])`;
+  if (m === null) throw new Error(`column '${column.name}' has no leave-one-out form`);
   const n = `${look.value("n_y")}::DOUBLE`;
   const s = look.value("sum_y");
   const y = ref(Y_FIELD);
@@ -70,6 +74,6 @@ export function columnSql(column: EncodedColumn, ctx: ExprContext): string[] {
     case "hashing": return [`${bucketSql(c, spec.width, spec.salt)}`];
     case "frequency": return [`coalesce(${lookupOf(column, ctx).value("value")}, 0::DOUBLE)`];
     case "codes": return [`coalesce(${lookupOf(column, ctx).value("value")}, 0)::BIGINT`];
-    case "target-kfold": return [targetSql(column, spec.weight, ctx)];
+    case "target-kfold": return [targetSql(column, spec.structure ? null : spec.weight, ctx)];
   }
 }

@@ -13,8 +13,35 @@ import type { TargetSpec } from "../engine/target.js";
 import { TailsiftError } from "../errors.js";
 
 export const INPUT_LEVELS = "tailsift_enc_input";
+/** The plan's level table for the encoded columns, summed over folds: (name, level, rows, n_y, sum_y). */
+export const PLAN_LEVELS = "tailsift_enc_plan";
 
 const EMPTY = `SELECT NULL::VARCHAR AS name, NULL::VARCHAR AS level, 0::INTEGER AS fold, 0::DOUBLE AS rows, 0::DOUBLE AS n_y, 0::DOUBLE AS sum_y LIMIT 0`;
+
+const NEEDED = ["column", "level", "fold", "rows", "n_y", "sum_y"];
+
+/**
+ * Loads the plan's levels.parquet, only the encoded columns (the file may also hold identifier
+ * columns with millions of levels), summed over folds into PLAN_LEVELS.
+ * @throws TailsiftError `bad_level_table` when the file lacks a needed field or any of `names`.
+ */
+export async function planLevels(engine: Engine, levelsPath: string, names: readonly string[]): Promise<void> {
+  const doing = `reading the plan's level table '${levelsPath}'`;
+  const described = await engine.rows<{ column_name: string }>(`DESCRIBE SELECT * FROM read_parquet(${quoteLiteral(levelsPath)})`, doing);
+  const have = new Set(described.map((d) => d.column_name));
+  const lacking = NEEDED.filter((c) => !have.has(c));
+  if (lacking.length > 0) throw new TailsiftError("bad_level_table", `'${levelsPath}' is not a tailsift level table (no ${lacking.join(", ")}); rescan with scan --out`);
+  await engine.run(
+    `CREATE OR REPLACE TEMP TABLE ${PLAN_LEVELS} AS
+     SELECT "column" AS name, level, sum(rows)::BIGINT AS rows, sum(n_y)::BIGINT AS n_y, sum(sum_y)::DOUBLE AS sum_y
+     FROM read_parquet(${quoteLiteral(levelsPath)}) WHERE "column" IN (${names.map(quoteLiteral).join(", ")}) GROUP BY ALL`, doing);
+  const rows = await engine.rows<{ name: string }>(`SELECT DISTINCT name FROM ${PLAN_LEVELS}`, doing);
+  const found = new Set(rows.map((r) => r.name));
+  const absent = names.filter((n) => !found.has(n));
+  if (absent.length > 0) {
+    throw new TailsiftError("bad_level_table", `'${levelsPath}' has no levels of ${absent.map((n) => `'${n}'`).join(", ")}; it belongs to another scan — rescan with --out`);
+  }
+}
 
 /** Loads the plan's per-fold level table (levels.parquet) for `names` as the input's table. */
 export async function inputLevelsFromPlan(engine: Engine, levelsPath: string, names: readonly string[]): Promise<void> {

@@ -6,7 +6,9 @@
  *    fold settings of a training run;
  *  - `<column>.parquet` (frequency, codes, target): (level, rows, …, value), one row per level;
  *    a training run's target encoding adds `<column>.folds.parquet` (level, fold, n_other,
- *    sum_other, prior_other, value) — the out-of-fold values the training rows received.
+ *    sum_other, prior_other, value) — the out-of-fold values the training rows received;
+ *    backoff adds `<column>.groups.parquet` (one row per group), the hierarchical prior
+ *    `<column>.parents.parquet` (one row per parent) — see encode/structureMaps.
  * File names keep letters, digits, '.', '_' and '-' of the column name (others become '_'),
  * with `-<n>` appended when two columns would share a name.
  */
@@ -29,9 +31,17 @@ export function mappingBaseNames(columns: readonly string[]): string[] {
   });
 }
 
-/** Writes `table` as Parquet to `dir/file`, ordered by level (and fold) for a stable file. */
-export async function writeMappingTable(engine: Engine, table: string, dir: string, file: string, perFold: boolean): Promise<void> {
-  const order = perFold ? "level, fold" : "level";
+/**
+ * A table written beside the output as `<column><suffix>.parquet` ("" = the main file), named
+ * in the manifest entry under `key`, rows in `order` (SQL) for a stable file.
+ */
+export interface MappingFile { suffix: string; table: string; key: string; order: string }
+
+export const mainFile = (table: string): MappingFile => ({ suffix: "", table, key: "file", order: "level" });
+export const foldFile = (table: string): MappingFile => ({ suffix: ".folds", table, key: "foldFile", order: "level, fold" });
+
+/** Writes `table` as Parquet to `dir/file`, rows in `order`. */
+export async function writeMappingTable(engine: Engine, table: string, dir: string, file: string, order: string): Promise<void> {
   await engine.run(
     `COPY (SELECT * FROM ${table} ORDER BY ${order}) TO ${quoteLiteral(path.join(dir, file))} (FORMAT parquet, COMPRESSION zstd)`,
     `writing the mapping '${file}'`);

@@ -6,6 +6,7 @@
 import { TailsiftError } from "../errors.js";
 import { HASH_NAME } from "../engine/hashing.js";
 import type { ColumnProfile } from "../profile/types.js";
+import { targetStructure } from "./structureParams.js";
 import type { EncodingSpec } from "./types.js";
 
 function bad(column: string, what: string): TailsiftError {
@@ -33,12 +34,19 @@ function positiveInteger(column: string, value: unknown, name: string): number {
  * The encoding a plan column asks for: "drop", "keep" (pass through) or a checked spec.
  * Edge cases: indicator levels may be null (null = the missing level); one-hot with no levels
  * writes no column; codes without `tableSize` number every level; target-kfold needs a finite
- * weight m ≥ 0 (0 = raw means, with the prior used where a level has no rows).
- * @throws TailsiftError `bad_plan` for a missing or malformed parameter or an unknown encoding.
+ * weight m ≥ 0 (0 = raw means, with the prior used where a level has no rows); target-kfold with
+ * `grouping: "backoff"` or `prior: "hierarchical"` is read by encode/structureParams.
+ * @throws TailsiftError `bad_plan` for a missing or malformed parameter or an unknown encoding;
+ *   `unsupported_plan` for a grouping on another encoding (the hashing of backoff groups that
+ *   hierarchy/applyHierarchy advises for identifier-like columns without a target).
  */
 export function encodingSpec(column: ColumnProfile): EncodingSpec | "drop" | "keep" {
   const { encoding, params } = column.recommendation;
   const name = column.name;
+  if (encoding !== "target-kfold" && (params.grouping !== undefined || params.prior !== undefined)) {
+    throw new TailsiftError("unsupported_plan",
+      `plan column '${name}': encode applies a grouping or a hierarchical prior only with target-kfold, not with ${String(encoding)}; rescan with --decide ${name}=${String(encoding)} to use the plain encoding`);
+  }
   switch (encoding) {
     case "drop": return "drop";
     case "keep": return "keep";
@@ -58,6 +66,8 @@ export function encodingSpec(column: ColumnProfile): EncodingSpec | "drop" | "ke
     case "frequency": return { encoding };
     case "codes": return { encoding, tableSize: params.tableSize === undefined ? 2 ** 53 : positiveInteger(name, params.tableSize, "tableSize") };
     case "target-kfold": {
+      const structure = targetStructure(name, params);
+      if (structure) return { encoding, structure };
       const m = params.weight;
       if (typeof m !== "number" || !Number.isFinite(m) || m < 0) throw bad(name, "params.weight (the prior weight m) must be a number ≥ 0");
       return { encoding, weight: m };

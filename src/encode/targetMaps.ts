@@ -45,28 +45,40 @@ export async function fullTargetMap(engine: Engine, i: number, from: string, nam
 export const inputMeanSql = (from: string, name: string): string =>
   `SELECT sum(sum_y) / sum(n_y) FROM ${from} WHERE name = ${quoteLiteral(name)}`;
 
+/** The table of other-folds priors of column i: (fold, prior), one row per fold 0..K−1. */
+export const foldPriorTable = (i: number): string => `tailsift_enc_fold_prior_t${i}`;
+
 /**
- * Creates `mapTable(i)`(level, fold, n_other, sum_other, prior_other, value), dense over every
- * level × fold, and the list variable `foldPriorVar(i)` of the other-folds priors.
+ * Creates `foldPriorTable(i)` from `from`'s sums of column `name` (missing levels included: the
+ * other folds' target mean over all their rows) and sets the list variable `foldPriorVar(i)`.
+ * A fold holding every target row falls back to the overall mean.
  */
-export async function outOfFoldMap(engine: Engine, i: number, from: string, name: string, m: number, folds: number): Promise<void> {
+export async function foldPriors(engine: Engine, i: number, from: string, name: string, folds: number): Promise<void> {
   const col = quoteLiteral(name);
-  const priors = `tailsift_enc_fold_prior_t${i}`;
   await engine.run(
-    `CREATE OR REPLACE TEMP TABLE ${priors} AS
+    `CREATE OR REPLACE TEMP TABLE ${foldPriorTable(i)} AS
      WITH f AS (SELECT fold, sum(n_y) AS fn, sum(sum_y) AS fs FROM ${from} WHERE name = ${col} GROUP BY fold),
           g AS (SELECT sum(n_y) AS tn, sum(sum_y) AS ts FROM ${from} WHERE name = ${col}),
           k AS (SELECT range::INTEGER AS fold FROM range(${sqlNumber(folds)}))
      SELECT k.fold, CASE WHEN g.tn - coalesce(f.fn, 0) > 0 THEN (g.ts - coalesce(f.fs, 0)) / (g.tn - coalesce(f.fn, 0))
                          ELSE g.ts / g.tn END AS prior
      FROM k LEFT JOIN f USING (fold) CROSS JOIN g`, `computing the other-folds priors of '${name}'`);
-  await engine.run(`SET VARIABLE ${foldPriorVar(i)} = (SELECT list(prior ORDER BY fold) FROM ${priors})`, `setting the fold priors of '${name}'`);
+  await engine.run(`SET VARIABLE ${foldPriorVar(i)} = (SELECT list(prior ORDER BY fold) FROM ${foldPriorTable(i)})`, `setting the fold priors of '${name}'`);
+}
+
+/**
+ * Creates `mapTable(i)`(level, fold, n_other, sum_other, prior_other, value), dense over every
+ * level × fold, and the list variable `foldPriorVar(i)` of the other-folds priors.
+ */
+export async function outOfFoldMap(engine: Engine, i: number, from: string, name: string, m: number, folds: number): Promise<void> {
+  const col = quoteLiteral(name);
+  await foldPriors(engine, i, from, name, folds);
   await engine.run(
     `CREATE OR REPLACE TEMP TABLE ${mapTable(i)} AS
      WITH l AS (SELECT level, fold, sum(n_y) AS n, sum(sum_y) AS s FROM ${from} WHERE name = ${col} AND level IS NOT NULL GROUP BY ALL),
           t AS (SELECT level, sum(n) AS tn, sum(s) AS ts FROM l GROUP BY level),
           o AS (SELECT t.level, p.fold, t.tn - coalesce(l.n, 0) AS n_other, t.ts - coalesce(l.s, 0) AS sum_other, p.prior AS prior_other
-                FROM t CROSS JOIN ${priors} p LEFT JOIN l ON l.level = t.level AND l.fold = p.fold)
+                FROM t CROSS JOIN ${foldPriorTable(i)} p LEFT JOIN l ON l.level = t.level AND l.fold = p.fold)
      SELECT level, fold, n_other, sum_other, prior_other, ${smoothed("sum_other", "n_other", sqlDouble(m), "prior_other")} AS value FROM o`,
     `building the out-of-fold mapping of '${name}'`);
 }

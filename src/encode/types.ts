@@ -2,6 +2,7 @@
  * encode/types: the shapes `tailsift encode` works with — the validated encoding of one column,
  * what the output holds, and the summary printed at the end.
  */
+import type { ParentSpec } from "../hierarchy/types.js";
 import type { Encoding } from "../profile/types.js";
 
 export type EncodeMode = "training" | "scoring";
@@ -14,7 +15,19 @@ export type EncodingSpec =
   | { encoding: "hashing"; width: number; salt: string }
   | { encoding: "frequency" }
   | { encoding: "codes"; tableSize: number }
-  | { encoding: "target-kfold"; weight: number };
+  | { encoding: "target-kfold"; weight: number; structure?: undefined }
+  | { encoding: "target-kfold"; structure: TargetStructure };
+
+/**
+ * Target encoding over a level hierarchy (the evidence's backoff and hierarchical candidates).
+ * A null weight is infinite: the group, or the level, takes its prior (evidence/baseSql).
+ *  - backoff: `parents` shallowest first (depth d = parents[d − 1]); levels grouped as
+ *    hierarchy/backoff groups them, then each group's m-estimate with weight m;
+ *  - hierarchical: level → parent (weight m) → overall mean (weight parentWeight).
+ */
+export type TargetStructure =
+  | { kind: "backoff"; parents: ParentSpec[]; minRows: number; weight: number | null }
+  | { kind: "hierarchical"; parent: ParentSpec; weight: number | null; parentWeight: number | null };
 
 /** One column that is encoded; `index` numbers the encoded columns (temp table and type names). */
 export interface EncodedColumn {
@@ -44,7 +57,27 @@ export interface ColumnSummary {
   fallbackRule: string;
   /** The mapping file for this column, relative to the mappings folder (if any). */
   file?: string;
+  /** Backoff and hierarchical target encoding: where the input's levels went. */
+  grouping?: GroupingCounts;
 }
+
+/**
+ * Distinct non-missing input levels (and their rows) by what they received. Backoff: `own` =
+ * kept as their own group, `parent` = backed off to a parent group, `other` = the "other" group.
+ * Hierarchical (judged on the full-data sums and the weights): `own` = the level's own
+ * smoothed mean, `parent` = no target rows of its own (or a null level weight), so its
+ * parent's mean, `other` = neither, so the prior. `unseen` = levels absent from the plan's
+ * level table (also counted in the class they fell into).
+ */
+export interface GroupingCounts {
+  kind: TargetStructure["kind"];
+  own: LevelRows;
+  parent: LevelRows;
+  other: LevelRows;
+  unseen: LevelRows;
+}
+
+export interface LevelRows { levels: number; rows: number }
 
 export interface EncodeSummary {
   mode: EncodeMode;
@@ -53,7 +86,7 @@ export interface EncodeSummary {
   mappings: string;
   rows: number;
   foldColumn?: string;
-  /** Where target and level sums of a training run came from. */
+  /** Where the input's level table (training target sums, summary counts) came from. */
   levelSource: "plan level table" | "input pass" | "none";
   /** How mapped values were looked up: ENUM lists (no sort) or joins restored to input order. */
   lookup: "enum" | "join";

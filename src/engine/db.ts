@@ -1,13 +1,15 @@
 /**
  * Opens one DuckDB instance per command, with the settings every run needs: bounded threads and
- * memory, a temp directory for spilling that is not the user's working folder, and no extension
- * auto-install/auto-load (there is no network, and parquet/json are built in).
+ * memory, a temp directory for spilling that is not the user's working folder, no extension
+ * auto-install/auto-load (there is no network, and parquet/json are built in), and, when the
+ * caller names them, file access limited to the inputs, the output folder and the temp folder.
  */
+import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { DuckDBInstance, type DuckDBConnection, type DuckDBValue } from "@duckdb/node-api";
-import { wrapEngineError } from "../errors.js";
-import { quoteLiteral } from "./sql.js";
+import { TailsiftError, wrapEngineError } from "../errors.js";
+import { quoteLiteral, quoteLiteralList } from "./sql.js";
 
 export interface EngineOptions {
   /** DuckDB memory limit, e.g. "2GB". Default: 60 % of the machine's memory, capped at 16 GB. */
@@ -15,6 +17,14 @@ export interface EngineOptions {
   threads?: number;
   /** Where DuckDB spills; default the OS temp folder. */
   tempDir?: string;
+  /**
+   * Limit DuckDB's file access to these paths (plus the temp folder): input files, globs (their
+   * fixed leading folder is allowed), input folders, and output FOLDERS (outputs are written to a
+   * temp file beside the destination, so give the folder, not the file). After the engine opens,
+   * any other path fails with code `path_not_allowed`, and extensions cannot be loaded.
+   * Absent: no limit (DuckDB's default).
+   */
+  lockToPaths?: readonly string[];
 }
 
 export interface Engine {
@@ -37,6 +47,86 @@ export function defaultMemoryLimit(): string {
   return `${mb}MB`;
 }
 
+const UNIT_BYTES: Record<string, number> = {
+  b: 1, k: 1e3, kb: 1e3, m: 1e6, mb: 1e6, g: 1e9, gb: 1e9, t: 1e12, tb: 1e12,
+  kib: 2 ** 10, mib: 2 ** 20, gib: 2 ** 30, tib: 2 ** 40,
+};
+/** The smallest memory limit accepted: below it DuckDB cannot even read a CSV buffer. */
+export const MIN_MEMORY_BYTES = 64 * 2 ** 20;
+
+/**
+ * Checks a --memory-limit text and returns it in DuckDB's form ("2GB", "512MiB"); "N%" is a
+ * share of the machine's memory. DuckDB itself reads "-1GB" as no limit and "0GB" as nothing,
+ * so both are refused here, as is anything below MIN_MEMORY_BYTES.
+ * @throws TailsiftError `bad_option` naming --memory-limit.
+ */
+export function parseMemoryLimit(text: string): string {
+  const bad = (why: string) => new TailsiftError("bad_option", `--memory-limit '${text}' ${why}; give a size such as 2GB, 512MB or 50%`);
+  const m = /^\s*(\d+(?:\.\d+)?)\s*([a-z%]*)\s*$/i.exec(text);
+  if (!m) throw bad("is not a size");
+  const value = Number(m[1]);
+  const unit = (m[2] ?? "").toLowerCase();
+  let bytes: number;
+  if (unit === "%") {
+    if (!(value > 0 && value <= 100)) throw bad("is not a share from 1% to 100%");
+    bytes = Math.floor((os.totalmem() * value) / 100);
+  } else {
+    const per = UNIT_BYTES[unit];
+    if (per === undefined) throw bad(unit === "" ? "has no unit" : `has an unknown unit '${m[2]}'`);
+    bytes = value * per;
+  }
+  if (bytes < MIN_MEMORY_BYTES) throw bad("is too small (at least 64MB)");
+  return `${Math.floor(bytes / 2 ** 20)}MiB`;
+}
+
+function checkThreads(threads: number): number {
+  if (!Number.isInteger(threads) || threads < 1 || threads > 1024) {
+    throw new TailsiftError("bad_option", `--threads must be a whole number from 1 to 1024 (got ${threads})`);
+  }
+  return threads;
+}
+
+/** The temp folder must be a writable folder, or creatable inside one: tested by making and removing a folder there. */
+function checkTempDir(dir: string): void {
+  let probe = path.resolve(dir);
+  while (!fs.existsSync(probe) && path.dirname(probe) !== probe) probe = path.dirname(probe);
+  try {
+    fs.rmdirSync(fs.mkdtempSync(path.join(probe, ".tailsift-probe-")));
+  } catch {
+    throw new TailsiftError("bad_option", `--temp-dir '${dir}' is not a writable folder (cannot create a folder in '${probe}'); give a folder with free space`);
+  }
+}
+
+const GLOB_CHARS = /[*?[{]/;
+
+/** Folders and files DuckDB may touch for `entries`, in both the given and the real (symlink-free) spelling. */
+export function allowedPaths(entries: readonly string[], tempDir: string): { directories: string[]; files: string[] } {
+  const directories = new Set<string>();
+  const files = new Set<string>();
+  const spellings = (p: string) => {
+    const abs = path.resolve(p);
+    try {
+      return [abs, fs.realpathSync(abs)];
+    } catch {
+      return [abs];
+    }
+  };
+  const addDir = (d: string) => { for (const s of spellings(d)) directories.add(s.endsWith(path.sep) ? s : s + path.sep); };
+  for (const entry of [...entries, tempDir]) {
+    if (GLOB_CHARS.test(entry)) {
+      const parts = path.resolve(entry).split(path.sep);
+      const fixed = parts.slice(0, parts.findIndex((part) => GLOB_CHARS.test(part)));
+      addDir(fixed.join(path.sep) || path.sep);
+      continue;
+    }
+    let stat: fs.Stats | null = null;
+    try { stat = fs.statSync(entry); } catch { stat = null; }
+    if (stat?.isFile()) for (const s of spellings(entry)) files.add(s);
+    else addDir(entry);
+  }
+  return { directories: [...directories], files: [...files] };
+}
+
 function toPlain(value: unknown): unknown {
   if (typeof value === "bigint") return Number(value);
   return value;
@@ -48,9 +138,14 @@ function plainRow(row: Record<string, unknown>): Record<string, unknown> {
   return out;
 }
 
+/**
+ * Opens the engine. Options are checked before DuckDB starts (bad_option errors name the option).
+ * @throws TailsiftError `bad_option` for a bad memory limit, thread count or temp folder.
+ */
 export async function openEngine(options: EngineOptions = {}): Promise<Engine> {
-  const threads = options.threads ?? Math.max(1, os.availableParallelism());
-  const memoryLimit = options.memoryLimit ?? defaultMemoryLimit();
+  const threads = checkThreads(options.threads ?? Math.max(1, os.availableParallelism()));
+  const memoryLimit = options.memoryLimit === undefined ? defaultMemoryLimit() : parseMemoryLimit(options.memoryLimit);
+  if (options.tempDir !== undefined) checkTempDir(options.tempDir);
   const tempDir = options.tempDir ?? path.join(os.tmpdir(), `tailsift-spill-${process.pid}`);
   let instance: DuckDBInstance;
   try {
@@ -69,11 +164,23 @@ export async function openEngine(options: EngineOptions = {}): Promise<Engine> {
       throw wrapEngineError(err, doing);
     }
   };
-  await run(`SET threads = ${Math.max(1, Math.floor(threads))}`, "setting threads");
-  await run(`SET memory_limit = ${quoteLiteral(memoryLimit)}`, `setting memory limit '${memoryLimit}'`);
-  await run(`SET temp_directory = ${quoteLiteral(tempDir)}`, "setting the temp directory");
-  await run("SET preserve_insertion_order = true", "setting insertion order");
-  await run("SET enable_progress_bar = true; SET enable_progress_bar_print = false", "enabling progress");
+  try {
+    await run(`SET threads = ${threads}`, "setting threads");
+    await run(`SET memory_limit = ${quoteLiteral(memoryLimit)}`, `setting memory limit '${memoryLimit}'`);
+    await run(`SET temp_directory = ${quoteLiteral(tempDir)}`, "setting the temp directory");
+    await run("SET preserve_insertion_order = true", "setting insertion order");
+    await run("SET enable_progress_bar = true; SET enable_progress_bar_print = false", "enabling progress");
+    if (options.lockToPaths) {
+      const allowed = allowedPaths(options.lockToPaths, tempDir);
+      await run(`SET allowed_directories = ${quoteLiteralList(allowed.directories)}`, "limiting file access to the named folders");
+      await run(`SET allowed_paths = ${quoteLiteralList(allowed.files)}`, "limiting file access to the named files");
+      await run("SET enable_external_access = false", "turning off other file access");
+    }
+  } catch (err) {
+    connection.closeSync();
+    instance.closeSync();
+    throw err;
+  }
 
   return {
     connection,

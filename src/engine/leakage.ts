@@ -43,7 +43,7 @@ function scoredSql(weights: ReadonlyMap<number, number>): string {
     SELECT lv.col, lv.n_y, lv.sum_y, lv.sum_y2,
       CASE WHEN lv.level IS NULL THEN g.ts / g.tn
            ELSE (lv.ts_level + lv.m * g.ts / g.tn) / (lv.tn_level + lv.m) END AS s_in,
-      CASE WHEN lv.level IS NULL OR lv.tn_level - lv.n_y + lv.m <= 0 THEN (g.ts - ft.fs) / (g.tn - ft.fn)
+      CASE WHEN lv.level IS NULL OR lv.tn_level - lv.n_y <= 0 THEN (g.ts - ft.fs) / (g.tn - ft.fn)
            ELSE (lv.ts_level - lv.sum_y + lv.m * (g.ts - ft.fs) / (g.tn - ft.fn)) / (lv.tn_level - lv.n_y + lv.m) END AS s_oof
     FROM lv JOIN ft USING (fold) CROSS JOIN g)`;
 }

@@ -51,6 +51,7 @@ const LEVEL_FIELDS = "col, level, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_
  * levels on 2M levels); past 200 columns one windowed query is used instead.
  */
 function topPerColumnSql(columnCount: number, where: string, order: string, limit: number): string {
+  if (columnCount === 0) return `SELECT ${LEVEL_FIELDS} FROM ${LEVEL_TOTALS} WHERE false`;
   if (columnCount <= 200) {
     const parts = Array.from({ length: columnCount }, (_, col) =>
       `(SELECT ${LEVEL_FIELDS} FROM ${LEVEL_TOTALS} WHERE col = ${col} AND ${where} ORDER BY ${order} LIMIT ${limit})`);

@@ -31,6 +31,13 @@ function redactColumn(c: ColumnProfile, tag: (v: string) => string): ColumnProfi
   };
   if (c.variants) out.variants = { ...c.variants, examples: c.variants.examples.map((g) => g.map(tag)) };
   if (c.target?.funnel) out.target = { ...c.target, funnel: c.target.funnel.map((f) => ({ ...f, value: t(f.value) })) };
+  if (c.evidence) {
+    out.evidence = {
+      ...c.evidence,
+      reason: redactQuoted(c.evidence.reason, tag),
+      candidates: c.evidence.candidates.map((x) => ({ ...x, params: redactParams(x.params, tag) })),
+    };
+  }
   return out;
 }
 

@@ -1,3 +1,6 @@
+import type { Evidence } from "../evidence/types.js";
+import type { HierarchyFigures } from "../hierarchy/types.js";
+
 /**
  * The Profile: the JSON contract between commands (profile.json). Keys follow
  * ../shared/DESIGN.md; more may be added, none removed. Shares are fractions in [0, 1].
@@ -114,6 +117,10 @@ export interface ColumnProfile {
     hash?: string;
     candidates: { width: number; collisionRowShare: number; collidingLevels?: number }[];
   };
+  /** Structured codes: detected parents and the backoff grouping (issue: grouping advisor). */
+  hierarchy?: HierarchyFigures;
+  /** Candidate encodings scored out-of-fold and the one-standard-error choice. */
+  evidence?: Evidence;
   recommendation: Recommendation;
 }
 

@@ -1,0 +1,140 @@
+/**
+ * commands/encode: applies a plan's encodings to an extract — orchestration only.
+ *
+ * 1. Read the plan (profile.json + levels.parquet), open the input, decide the output columns.
+ * 2. The input's level table: the plan's levels.parquet when the input IS the scanned extract
+ *    (same fingerprint, no --skip-bad-rows; `recount` forces a pass), otherwise one GROUP BY
+ *    pass over the input.
+ *    A training run's target sums come from this table, i.e. from the training input itself;
+ *    frequency and codes always come from the plan's level table, in both modes.
+ * 3. Small mapping tables per column (per level, or per level and fold) inside DuckDB.
+ * 4. ONE `COPY (SELECT …) TO` writes the output in input order (encode/lookup explains how),
+ *    to a temporary file that is renamed into place with the mappings folder beside it.
+ * Folds are the scan's: foldSql(profile.settings.foldColumns, seed, folds) over the same text view.
+ */
+import fs from "node:fs";
+import path from "node:path";
+import { foldSql } from "../engine/aggregate.js";
+import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
+import { describeFiles, openSource, type SourceOptions } from "../engine/source.js";
+import { TailsiftError } from "../errors.js";
+import { locatePlan } from "../drift/planFiles.js";
+import { writeOutput } from "../encode/writeOutput.js";
+import { outputFormat } from "../encode/outputFile.js";
+import { buildColumnMap, type ColumnMap } from "../encode/columnMaps.js";
+import { inputLevelsFromPass, inputLevelsFromPlan, planLevels } from "../encode/levelTables.js";
+import { chooseLookup, prepareLookup, type LookupKind, type LookupRef } from "../encode/lookup.js";
+import { foldColumnsOf, planColumns } from "../encode/planColumns.js";
+import { FOLD_FIELD, ref } from "../encode/expressions.js";
+import type { EncodeMode, EncodeSummary } from "../encode/types.js";
+import type { Profile } from "../profile/types.js";
+import { readProfile } from "./scanCli.js";
+import { ensureOutputDir, refuseInputAsOutput } from "./output.js";
+
+export type { EncodeSummary } from "../encode/types.js";
+
+export interface EncodeOptions extends EngineOptions, SourceOptions {
+  /** The plan: a profile.json written by scan --out (levels.parquet beside it), or its folder. */
+  plan: string;
+  /** The output file: .parquet, .csv, .tsv, .csv.gz or .tsv.gz. */
+  out: string;
+  mode: EncodeMode;
+  /** Name of the fold column written in training mode (default "fold"). */
+  foldColumn?: string;
+  /** Columns passed through untouched, whatever the plan says. */
+  keep?: string[];
+  /** Also write each encoded column's text as `<column>__text`. */
+  keepOriginal?: boolean;
+  /** Training only: leave-one-out target encoding instead of out-of-fold. */
+  leaveOneOut?: boolean;
+  /** Training only: count level sums from the input even when it is the scanned extract. */
+  recount?: boolean;
+  /** How mapped values are looked up (default auto: enum unless a mapping is very large). */
+  lookup?: LookupKind | "auto";
+  onEngine?: (engine: Engine | null) => void;
+}
+
+/**
+ * Encodes `inputs` with the plan and writes `options.out` plus `options.out + ".mappings/"`.
+ * @throws TailsiftError (exit 2) for a missing or invalid plan, a plan made from other columns,
+ *   training input without the target, leave-one-out when scoring, a bad output path; exit 130
+ *   when interrupted (nothing is left behind).
+ */
+export async function encode(inputs: readonly string[], options: EncodeOptions): Promise<EncodeSummary> {
+  if (options.leaveOneOut && options.mode !== "training") throw new TailsiftError("bad_option", "--leave-one-out applies to --for training only");
+  const foldColumn = options.foldColumn ?? "fold";
+  if (foldColumn.trim() === "") throw new TailsiftError("bad_option", "--fold-column needs a name");
+  const { profilePath, levelsPath } = findPlan(options.plan);
+  const profile = readProfile(profilePath);
+  refuseInputAsOutput(options.out, [...inputs, profilePath, levelsPath]);
+  outputFormat(options.out);
+  ensureOutputDir(path.dirname(path.resolve(options.out)));
+  return withEngine(options, async (engine) => {
+    options.onEngine?.(engine);
+    try {
+      return await encodeWith(engine, inputs, profile, levelsPath, { ...options, foldColumn });
+    } finally {
+      options.onEngine?.(null);
+    }
+  });
+}
+
+function findPlan(plan: string): { profilePath: string; levelsPath: string } {
+  try {
+    return locatePlan(plan);
+  } catch (err) {
+    if (err instanceof TailsiftError && err.code === "plan_without_levels") {
+      readProfile(fs.statSync(plan).isDirectory() ? path.join(plan, "profile.json") : plan); // not a profile: say that first
+      throw new TailsiftError(err.code, `plan '${plan}' has no levels.parquet beside profile.json; encode needs the level table that scan --out writes there (rescan with --out)`);
+    }
+    throw err;
+  }
+}
+
+async function encodeWith(engine: Engine, inputs: readonly string[], profile: Profile, levelsPath: string, o: EncodeOptions & { foldColumn: string }): Promise<EncodeSummary> {
+  const source = await openSource(engine, inputs, o);
+  const training = o.mode === "training";
+  const plan = planColumns(profile, source.columns, { mode: o.mode, keep: o.keep ?? [], keepOriginal: o.keepOriginal ?? false, foldColumn: o.foldColumn });
+  if (plan.names.length === 0) throw new TailsiftError("nothing_to_write", "the plan drops every column of the input; nothing to write (use --keep to pass columns through)");
+  const names = plan.encoded.map((c) => c.name);
+  const folds = profile.settings.folds;
+  const foldExpr = training ? foldSql(foldColumnsOf(profile), profile.settings.seed, folds) : null;
+  const target = profile.target ? { column: profile.target.column, kind: profile.target.kind, ...(profile.target.positive !== undefined ? { positive: profile.target.positive } : {}) } : undefined;
+  const targetEncoded = plan.encoded.some((c) => c.spec.encoding === "target-kfold");
+  if (targetEncoded && !target) throw new TailsiftError("bad_plan", "the plan target-encodes a column but has no target; rescan with --target");
+  const needsTarget = training && targetEncoded;
+
+  let levelSource: EncodeSummary["levelSource"] = "none";
+  if (names.length > 0) {
+    await planLevels(engine, levelsPath, names);
+    // The scanned extract itself (and read the same way): its level table is the plan's.
+    if (source.fingerprint === profile.input.fingerprint && !o.recount && !o.skipBadRows) {
+      await inputLevelsFromPlan(engine, levelsPath, names);
+      levelSource = "plan level table";
+    } else {
+      await inputLevelsFromPass(engine, names, {
+        view: source.view, identity: training ? foldColumnsOf(profile) : names.slice(0, 1),
+        folds: training ? folds : 1, seed: training ? profile.settings.seed : 0, ...(needsTarget && target ? { target } : {}),
+      }, `reading ${describeFiles(source.files)}`);
+      levelSource = "input pass";
+    }
+  }
+
+  const maps = new Map<number, ColumnMap>();
+  for (const column of plan.encoded) {
+    const map = await buildColumnMap(engine, column, { mode: o.mode, leaveOneOut: o.leaveOneOut ?? false, folds, targetMean: profile.target?.mean });
+    if (map) maps.set(column.index, map);
+  }
+  const lookup = o.lookup === undefined || o.lookup === "auto" ? await chooseLookup(engine, [...maps.values()].map((m) => m.table)) : o.lookup;
+  const lookups = new Map<number, LookupRef>();
+  for (const [i, map] of maps) {
+    const column = plan.encoded[i]!;
+    const fold = map.perFold ? { expr: ref(FOLD_FIELD), folds } : undefined;
+    lookups.set(i, await prepareLookup(engine, lookup, i, map.table, { level: ref(column.name), ...(fold ? { fold } : {}) }, map.fields));
+  }
+
+  return writeOutput(engine, {
+    plan, maps, lookups, lookup, levelSource, source, profile, options: o, foldExpr,
+    looTarget: o.leaveOneOut && target ? target : undefined,
+  });
+}

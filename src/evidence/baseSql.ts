@@ -1,0 +1,29 @@
+/**
+ * evidence/baseSql: the CTEs every candidate's out-of-fold predictions start from, read from the
+ * level table alone:
+ *   ft(fold, fn, fs)      per-fold totals of rows with a target (col = −1 rows);
+ *   pf(fold, prior)       the out-of-fold overall mean: the other folds' Σy / n;
+ *   lf(level, fold, n, s, s2)  one column's (level, fold) sums over rows with a target
+ *                          (level NULL = missing value).
+ * The level table may hold several rows per key (merged shards), so every CTE sums.
+ */
+import { LEVEL_TABLE } from "../engine/aggregate.js";
+import { sqlNumber } from "../engine/sql.js";
+
+/** The shared CTE text (without the leading WITH). */
+export function baseCtes(col: number): string {
+  return `ft AS (SELECT fold, sum(n_y)::DOUBLE AS fn, sum(sum_y)::DOUBLE AS fs FROM ${LEVEL_TABLE} WHERE col = -1 GROUP BY fold),
+  g AS (SELECT sum(fn) AS gn, sum(fs) AS gs FROM ft),
+  pf AS (SELECT ft.fold, CASE WHEN g.gn - ft.fn > 0 THEN (g.gs - ft.fs) / (g.gn - ft.fn) ELSE g.gs / g.gn END AS prior FROM ft CROSS JOIN g),
+  lf AS (SELECT level, fold, sum(n_y)::DOUBLE AS n, sum(sum_y)::DOUBLE AS s, sum(sum_y2)::DOUBLE AS s2
+         FROM ${LEVEL_TABLE} WHERE col = ${sqlNumber(col)} AND n_y > 0 GROUP BY level, fold)`;
+}
+
+/**
+ * An m-estimate in SQL: (sum + m·prior)/(n + m) (as stats/mEstimate), or exactly the prior when m
+ * is NULL (infinite weight) or the group has no rows (n ≤ 0: an unseen level takes the prior; in
+ * floating point (m·prior)/m can differ from prior in the last bit, which would split ties).
+ */
+export function mEstimateSql(sum: string, n: string, m: string, prior: string): string {
+  return `CASE WHEN ${m} IS NULL OR ${n} <= 0 THEN ${prior} ELSE (${sum} + ${m} * ${prior}) / (${n} + ${m}) END`;
+}

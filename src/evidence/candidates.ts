@@ -1,0 +1,57 @@
+/**
+ * evidence/candidates: builds and scores the candidates that need no hierarchy — the overall
+ * mean, pooled one-hot at the advised threshold and flat target-kfold with the column's fitted m.
+ */
+import type { AdvicePolicy } from "../advice/policy.js";
+import type { Engine } from "../engine/db.js";
+import { LEVEL_TOTALS } from "../engine/levels.js";
+import { quoteLiteral, sqlNumber } from "../engine/sql.js";
+import type { ColumnProfile, TargetKind } from "../profile/types.js";
+import { groupedScoredSql } from "./groupedSql.js";
+import type { Score } from "./scoreSql.js";
+import { scorePredictions } from "./scoreSql.js";
+import type { CandidateName, EvidenceCandidate } from "./types.js";
+
+/** A scored candidate; AUC or R² only when the score has it. */
+export function toCandidate(candidate: CandidateName, params: Record<string, unknown>, score: Score): EvidenceCandidate {
+  return {
+    candidate, params, loss: score.loss, se: score.se, foldLosses: score.foldLosses,
+    ...(score.auc !== undefined ? { auc: score.auc } : {}), ...(score.r2 !== undefined ? { r2: score.r2 } : {}),
+  };
+}
+
+/** Every row gets the other folds' overall mean: what the column adds nothing to. */
+export async function overallMeanCandidate(engine: Engine, col: number, kind: TargetKind): Promise<EvidenceCandidate | null> {
+  const score = await scorePredictions(engine, groupedScoredSql(col, "none", 0), kind, "the overall mean");
+  return score && toCandidate("overall-mean", {}, score);
+}
+
+/** Target-kfold with the column's fitted m (0 when no m was fitted, as the leakage figure uses). */
+export async function flatCandidate(engine: Engine, col: number, column: ColumnProfile, kind: TargetKind, policy: AdvicePolicy): Promise<EvidenceCandidate | null> {
+  const weight = column.target?.prior.weight ?? 0;
+  const score = await scorePredictions(engine, groupedScoredSql(col, "identity", weight), kind, "flat target encoding");
+  return score && toCandidate("target-kfold", {
+    weight, folds: policy.folds, seed: policy.seed, priorMean: column.target?.prior.mean ?? null, fallback: "prior mean",
+  }, score);
+}
+
+/**
+ * Pooled one-hot: kept = levels with at least minLevelRows rows, the largest maxOneHot − 1 (ties by
+ * value, as topLevels); every other non-missing level is "other". Each group predicts its raw
+ * out-of-fold rate (an unpenalised one-hot model). Edge case: no level qualifies → null.
+ */
+export async function pooledCandidate(engine: Engine, col: number, column: ColumnProfile, kind: TargetKind, policy: AdvicePolicy): Promise<EvidenceCandidate | null> {
+  const kept = await engine.rows<{ level: string; rows: number }>(
+    `SELECT level, rows::DOUBLE AS rows FROM ${LEVEL_TOTALS} WHERE col = ${sqlNumber(col)} AND level IS NOT NULL AND rows >= ${sqlNumber(policy.minLevelRows)}
+     ORDER BY rows DESC, level LIMIT ${sqlNumber(Math.max(1, policy.maxOneHot - 1))}`, "choosing the pooled one-hot levels");
+  if (kept.length === 0) return null;
+  const list = kept.map((k) => quoteLiteral(k.level)).join(", ");
+  const mapping = { sql: `SELECT level, CASE WHEN level IN (${list}) THEN 0 ELSE -1 END AS gd, CASE WHEN level IN (${list}) THEN level ELSE '' END AS gk
+    FROM ${LEVEL_TOTALS} WHERE col = ${sqlNumber(col)} AND level IS NOT NULL` };
+  const score = await scorePredictions(engine, groupedScoredSql(col, mapping, 0), kind, "pooled one-hot");
+  const nonMissing = column.rows - column.missing;
+  const keptRows = kept.reduce((s, k) => s + k.rows, 0);
+  return score && toCandidate("pooled-one-hot", {
+    keep: kept.map((k) => k.level), other: "other", pooledRowShare: nonMissing > 0 ? Math.max(0, 1 - keptRows / nonMissing) : 0, minRows: policy.minLevelRows,
+  }, score);
+}

@@ -1,0 +1,59 @@
+/**
+ * evidence/evidenceFor: the entry point scan calls after the rules have recommended. For each
+ * column with a target whose recommendation is target-kfold, frequency or pooled-one-hot (or an
+ * identifier-like column with a useful hierarchy), scores every applicable candidate out-of-fold
+ * from the level table and applies the one-standard-error rule.
+ */
+import type { AdvicePolicy } from "../advice/policy.js";
+import type { Engine } from "../engine/db.js";
+import type { HierarchyFigures } from "../hierarchy/types.js";
+import type { ColumnProfile, Encoding, ProfileTarget } from "../profile/types.js";
+import { flatCandidate, overallMeanCandidate, pooledCandidate } from "./candidates.js";
+import { backoffCandidate, hierarchicalCandidate } from "./hierarchyCandidates.js";
+import { chooseByOneSeRule } from "./oneSe.js";
+import type { Evidence, EvidenceCandidate } from "./types.js";
+
+/** Rule outcomes that evidence may revise; the others (drop, indicator, one-hot, hashing, codes) stand. */
+export const REVISABLE: readonly Encoding[] = ["target-kfold", "frequency", "pooled-one-hot"];
+
+/** Does evidence apply to this column? Never to a user override or a column without target figures. */
+export function evidenceApplies(column: ColumnProfile, hierarchy: HierarchyFigures | undefined): boolean {
+  if (!column.target || column.recommendation.overridden) return false;
+  if (column.role === "identifier") return hierarchy?.useful === true;
+  return column.role === "categorical" && REVISABLE.includes(column.recommendation.encoding);
+}
+
+/**
+ * Evidence per column index (= `col` in the level table). Call after recommend(): applicability
+ * reads the rules' recommendation. Hierarchy candidates are scored only for hierarchies that are
+ * not counter-like. Edge case: a column whose candidates all fail to score is absent.
+ */
+export async function evidenceFor(
+  engine: Engine, columns: readonly ColumnProfile[], target: ProfileTarget, policy: AdvicePolicy,
+  hierarchy: ReadonlyMap<number, HierarchyFigures>,
+): Promise<Map<number, Evidence>> {
+  const out = new Map<number, Evidence>();
+  const kind = target.kind;
+  const metric = kind === "binary" ? "log-loss" : "squared-error";
+  for (const [col, column] of columns.entries()) {
+    const h = hierarchy.get(col);
+    if (!evidenceApplies(column, h)) continue;
+    const built: (EvidenceCandidate | null)[] = [
+      await overallMeanCandidate(engine, col, kind),
+      await pooledCandidate(engine, col, column, kind, policy),
+      await flatCandidate(engine, col, column, kind, policy),
+    ];
+    if (h && !h.counterLike) {
+      built.push(await backoffCandidate(engine, col, column, h, kind, policy));
+      built.push(await hierarchicalCandidate(engine, col, column, h, kind, policy));
+    }
+    const candidates = built.filter((c): c is EvidenceCandidate => c !== null);
+    const choice = chooseByOneSeRule({ candidates, metric });
+    if (!choice) continue;
+    out.set(col, {
+      metric, folds: policy.folds, rows: target.rows, candidates,
+      best: choice.best.candidate, chosen: choice.candidate.candidate, rule: "one-standard-error", threshold: choice.threshold, reason: choice.reason,
+    });
+  }
+  return out;
+}

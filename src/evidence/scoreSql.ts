@@ -1,0 +1,38 @@
+/**
+ * evidence/scoreSql: scores one candidate's out-of-fold predictions in DuckDB. The candidate
+ * gives a query of (fold, n, s, s2, pred) — one row per (level, fold) with its target sums and
+ * the prediction every row in it receives. Per fold, in SQL: log loss −Σ[s·ln p + (n − s)·ln(1 − p)]
+ * with p clipped to [1e-15, 1 − 1e-15] (binary), or squared error Σ(s2 − 2·pred·s + n·pred²)
+ * (continuous). Over all folds: AUC by the Mann–Whitney U statistic summed over distinct
+ * predictions (ties ½, as engine/leakage does), or R² = 1 − SSE/SST.
+ */
+import type { Engine } from "../engine/db.js";
+import type { TargetKind } from "../profile/types.js";
+import { foldLoss } from "./foldLoss.js";
+
+const SCORED = "tailsift_evidence_scored";
+
+export interface Score { loss: number; se: number | null; foldLosses: number[]; rows: number; auc?: number | null; r2?: number | null }
+
+/** Runs the candidate's query once (into a temp table) and reads bounded sums back. */
+export async function scorePredictions(engine: Engine, scoredSql: string, kind: TargetKind, what: string): Promise<Score | null> {
+  await engine.run(`CREATE OR REPLACE TEMP TABLE ${SCORED} AS ${scoredSql}`, `predicting out-of-fold (${what})`);
+  const loss = kind === "binary"
+    ? "-(s * ln(greatest(1e-15, least(1 - 1e-15, pred))) + (n - s) * ln(1 - greatest(1e-15, least(1 - 1e-15, pred))))"
+    : "s2 - 2 * pred * s + n * pred * pred";
+  const folds = await engine.rows<{ fold: number; rows: number; loss: number }>(
+    `SELECT fold, sum(n)::DOUBLE AS rows, sum(${loss})::DOUBLE AS loss FROM ${SCORED} GROUP BY fold ORDER BY fold`, `scoring ${what}`);
+  const summary = foldLoss(folds);
+  if (!summary) return null;
+  const rows = folds.reduce((s, f) => s + f.rows, 0);
+  if (kind === "continuous") {
+    const [t] = await engine.rows<{ sse: number; sst: number }>(
+      `SELECT sum(s2 - 2 * pred * s + n * pred * pred)::DOUBLE AS sse, (sum(s2) - sum(s) * sum(s) / sum(n))::DOUBLE AS sst FROM ${SCORED}`, `scoring ${what}`);
+    return { ...summary, rows, r2: t && t.sst > 0 ? 1 - t.sse / t.sst : null };
+  }
+  const [u] = await engine.rows<{ u: number; pos: number; neg: number }>(
+    `WITH grp AS (SELECT pred, sum(s) AS pos, sum(n - s) AS neg FROM ${SCORED} GROUP BY pred),
+          cum AS (SELECT pos, neg, coalesce(sum(neg) OVER (ORDER BY pred ROWS BETWEEN UNBOUNDED PRECEDING AND 1 PRECEDING), 0) AS below FROM grp)
+     SELECT sum(pos * (below + neg / 2))::DOUBLE AS u, sum(pos)::DOUBLE AS pos, sum(neg)::DOUBLE AS neg FROM cum`, `scoring ${what}`);
+  return { ...summary, rows, auc: u && u.pos * u.neg > 0 ? u.u / (u.pos * u.neg) : null };
+}
