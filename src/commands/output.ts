@@ -30,11 +30,25 @@ export function writeFileAtomic(destination: string, content: string): void {
 /** Creates the output folder (and parents); a clear error when it cannot. */
 export function ensureOutputDir(dir: string): void {
   try {
-    fs.mkdirSync(dir, { recursive: true });
+    makeDirs(path.resolve(dir));
     fs.accessSync(dir, fs.constants.W_OK);
   } catch (err) {
     throw new TailsiftError("output_unwritable", `cannot write to folder '${dir}': ${(err as NodeJS.ErrnoException).code ?? String(err)}`);
   }
+}
+
+/**
+ * mkdir -p, one level at a time. Node 20's `mkdirSync(p, { recursive: true })` never returns for
+ * a path under /proc (seen here), so the recursion is ours.
+ */
+function makeDirs(dir: string): void {
+  if (fs.existsSync(dir)) {
+    if (!fs.statSync(dir).isDirectory()) throw Object.assign(new Error("not a folder"), { code: "ENOTDIR" });
+    return;
+  }
+  const parent = path.dirname(dir);
+  if (parent !== dir) makeDirs(parent);
+  fs.mkdirSync(dir);
 }
 
 /** Refuses an output path that is one of the inputs (inputs are never modified). */

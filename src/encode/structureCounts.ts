@@ -26,7 +26,7 @@ export function structureFallbackRule(s: TargetStructure, mode: EncodeMode): str
   if (s.kind === "backoff") {
     return `missing → ${p}; unseen → their deepest parent group, else "other"; a group without target rows${mode === "training" ? " in other folds" : ""} → ${p}`;
   }
-  return `missing → ${p}; a level without target rows${mode === "training" ? " in other folds" : ""} (unseen) → its parent's mean; a parent without any → ${p}`;
+  return `missing → ${p}; a level without target rows${mode === "training" ? " in other folds" : " (unseen included)"} → its parent's mean; a parent without any → ${p}`;
 }
 
 /**

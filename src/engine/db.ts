@@ -52,7 +52,7 @@ const UNIT_BYTES: Record<string, number> = {
   kib: 2 ** 10, mib: 2 ** 20, gib: 2 ** 30, tib: 2 ** 40,
 };
 /** The smallest memory limit accepted: below it DuckDB cannot even read a CSV buffer. */
-export const MIN_MEMORY_BYTES = 64 * 2 ** 20;
+export const MIN_MEMORY_BYTES = 64e6;
 
 /**
  * Checks a --memory-limit text and returns it in DuckDB's form ("2GB", "512MiB"); "N%" is a

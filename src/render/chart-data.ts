@@ -1,8 +1,10 @@
 /**
  * The numbers behind the report's charts, kept apart from the chart specs so they can be tested
- * as plain computations: coverage curves, funnel-plot limits and log-spaced sample grids.
+ * as plain computations: coverage curves, funnel-plot limits, log-spaced sample grids and the
+ * evidence chart's loss intervals.
  * Every function here is bounded: it never returns more points than asked for.
  */
+import type { CandidateName, Evidence } from "../evidence/types.js";
 import type { ColumnProfile } from "../profile/types.js";
 
 /** z for a two-sided 95 % limit (normal quantile 0.975). */
@@ -104,4 +106,24 @@ export function funnelLimitPoints(p0: number, nMin: number, nMax: number, z: num
     if (half !== null) points.push({ n, low: clip(p0 - half), high: clip(p0 + half) });
   }
   return points;
+}
+
+/** A candidate on the evidence chart: its out-of-fold loss and the ±1 SE interval (null without an SE). */
+export interface EvidencePoint {
+  candidate: CandidateName;
+  loss: number;
+  low: number | null;
+  high: number | null;
+}
+
+/**
+ * The evidence chart's points, in the evidence's order (simplest first): loss, loss − SE and
+ * loss + SE. A candidate without a finite loss is left out; one without a finite standard error
+ * (fewer than two folds) keeps its point with no interval.
+ */
+export function evidencePoints(evidence: Evidence): EvidencePoint[] {
+  return evidence.candidates.filter((c) => Number.isFinite(c.loss)).map((c) => {
+    const se = c.se !== null && Number.isFinite(c.se) ? c.se : null;
+    return { candidate: c.candidate, loss: c.loss, low: se === null ? null : c.loss - se, high: se === null ? null : c.loss + se };
+  });
 }

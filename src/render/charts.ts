@@ -9,7 +9,8 @@ import type { ColumnProfile, ProfileTarget } from "../profile/types.js";
 import { TailsiftError } from "../errors.js";
 import { showControlCharacters } from "./escape.js";
 import { formatCompact, formatCount, formatShare } from "./format.js";
-import { Z_95, Z_998, coveragePoints, funnelHalfWidth, funnelLimitPoints } from "./chart-data.js";
+import { label } from "../evidence/oneSe.js";
+import { Z_95, Z_998, coveragePoints, evidencePoints, funnelHalfWidth, funnelLimitPoints } from "./chart-data.js";
 
 export { funnelLimitPoints } from "./chart-data.js";
 
@@ -182,6 +183,75 @@ export function collisionChartSpec(column: ColumnProfile, budget: number): Chart
         encoding: { x, y: { field: "share", type: "quantitative" } } },
       { data: { values: [{ budget }] }, mark: { type: "rule", color: "#c0392b", strokeDash: [4, 3] },
         encoding: { y: { field: "budget", type: "quantitative" } } },
+    ] };
+}
+
+/** Splits a label into lines of at most `width` characters at spaces (a longer word gets a line of its own). */
+function wrapLabel(text: string, width: number): string[] {
+  const lines: string[] = [];
+  for (const word of text.split(" ")) {
+    const last = lines.length - 1;
+    if (last >= 0 && `${lines[last]} ${word}`.length <= width) lines[last] = `${lines[last]} ${word}`;
+    else lines.push(word);
+  }
+  return lines;
+}
+
+/**
+ * A y-axis whose labels wrap onto lines of at most EVIDENCE_LABEL_WIDTH characters (vega draws an
+ * array as lines, the first at the tick), each wrapped label moved up by half its extra lines so
+ * it stays centred on its tick. The labels are the tool's own words, quoted as JSON literals.
+ */
+function wrappedLabelAxis(labels: readonly string[]): Record<string, unknown> {
+  let labelExpr = "datum.label";
+  const shifts: string[] = [];
+  for (const text of labels) {
+    const lines = wrapLabel(text, EVIDENCE_LABEL_WIDTH);
+    if (lines.length < 2) continue;
+    labelExpr = `datum.label === ${JSON.stringify(text)} ? ${JSON.stringify(lines)} : ${labelExpr}`;
+    shifts.push(`datum.label === ${JSON.stringify(text)} ? ${(-(lines.length - 1) * EVIDENCE_LINE_HEIGHT) / 2}`);
+  }
+  return { labelExpr, labelLineHeight: EVIDENCE_LINE_HEIGHT, labelLimit: EVIDENCE_LABEL_WIDTH * 8 + 8,
+    labelOffset: { expr: [...shifts, "0"].join(" : ") } };
+}
+
+const EVIDENCE_LABEL_WIDTH = 22;
+const EVIDENCE_LINE_HEIGHT = 11;
+const EVIDENCE_ROLES: readonly (readonly [string, string])[] = [
+  ["candidate", "#8aa9c9"], ["best (lowest loss)", "#24476b"], ["chosen", "#c0392b"], ["best and chosen", "#c0392b"],
+];
+
+/**
+ * Evidence chart: each candidate's out-of-fold loss as a point with a ±1 standard-error bar
+ * (horizontal; candidates top to bottom, simplest first), the one-standard-error threshold as a
+ * dashed line, the chosen candidate in red and the best in dark blue. The candidate names are
+ * the tool's own words (evidence/oneSe `label`), never data. No evidence, or no candidate with a
+ * finite loss → null.
+ */
+export function evidenceChartSpec(column: ColumnProfile): ChartSpec | null {
+  const e = column.evidence;
+  const points = e ? evidencePoints(e) : [];
+  if (e === undefined || points.length === 0) return null;
+  const roleOf = (c: string): string => (c === e.chosen ? (c === e.best ? "best and chosen" : "chosen") : c === e.best ? "best (lowest loss)" : "candidate");
+  const values = points.map((p) => ({ candidate: label(p.candidate), loss: p.loss, low: p.low, high: p.high, role: roleOf(p.candidate) }));
+  const roles = EVIDENCE_ROLES.filter(([role]) => values.some((v) => v.role === role));
+  const labels = values.map((v) => v.candidate);
+  const y = { field: "candidate", type: "nominal", title: null, sort: labels, axis: wrappedLabelAxis(labels) };
+  const x = { type: "quantitative", title: e.metric === "log-loss" ? "out-of-fold log loss (nats per row)" : "out-of-fold squared error per row",
+    scale: { zero: false, padding: 10 }, axis: { tickCount: 5 } };
+  return { ...BASE, height: Math.max(60, 30 * values.length),
+    config: { ...BASE.config, axis: { ...BASE.config.axis, labelLimit: EVIDENCE_LABEL_WIDTH * 8 + 8 } }, description: "Out-of-fold loss of each candidate encoding",
+    title: "Candidates' out-of-fold loss, ±1 standard error",
+    layer: [
+      { data: { values: values.filter((v) => v.low !== null && v.high !== null) },
+        mark: { type: "errorbar", ticks: { size: 8 }, color: "#555" },
+        encoding: { y, x: { ...x, field: "low" }, x2: { field: "high" } } },
+      { data: { values: [{ threshold: e.threshold }] }, mark: { type: "rule", color: "#c0392b", strokeDash: [4, 3] },
+        encoding: { x: { ...x, field: "threshold" } } },
+      { data: { values }, mark: { type: "point", filled: true, size: 80, opacity: 1 },
+        encoding: { y, x: { ...x, field: "loss" },
+          color: { field: "role", type: "nominal", title: null,
+            scale: { domain: roles.map(([r]) => r), range: roles.map(([, c]) => c) } } } },
     ] };
 }
 

@@ -31,6 +31,10 @@ td.level { max-width: 22em; overflow-wrap: anywhere; }
 table.overview { width: 100%; }
 table.overview td.reasons { color: var(--muted); font-size: 13px; }
 a { color: var(--accent); }
+table.evidence td.params { max-width: 26em; font-size: 13px; color: var(--muted); overflow-wrap: anywhere; }
+table.evidence td.mark { white-space: nowrap; font-size: 13px; }
+table.evidence tr.chosen td { background: #fbeee6; font-weight: 600; }
+table.evidence tr.chosen td.params { color: var(--ink); }
 .badge { display: inline-block; padding: 1px 8px; border-radius: 10px; font-size: 12px; font-weight: 600;
   background: #e8eef6; color: #24476b; white-space: nowrap; }
 .enc-drop { background: #eceff2; color: #4a5260; }

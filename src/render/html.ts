@@ -5,12 +5,13 @@
  * HTML-escaped; chart text is escaped by vega's SVG renderer. Same profile → same bytes.
  */
 import type { ColumnProfile, LevelFigure, Profile, ProfileTarget } from "../profile/types.js";
-import { chartSvg, collisionChartSpec, coverageChartSpec, funnelChartSpec, type ChartSpec } from "./charts.js";
+import { chartSvg, collisionChartSpec, coverageChartSpec, evidenceChartSpec, funnelChartSpec, type ChartSpec } from "./charts.js";
 import { CONTROL_CHARACTERS, controlEscape, escapeHtml } from "./escape.js";
 import { formatCompact, formatCount, formatShare } from "./format.js";
 import {
-  STANDING_CAUTIONS, distinctText, headerFigures, inputNotes, keyFigures, levelText, overrideText, paramValueText,
-  paramsText, profiledAsLevels, settingsFigures, type Figure,
+  STANDING_CAUTIONS, backoffFigures, distinctText, evidenceHeader, evidenceNotes, evidenceRows, headerFigures,
+  hierarchyNotes, inputNotes, keyFigures, levelText, overrideText, paramValueText, paramsText, parentHeader, parentRows,
+  profiledAsLevels, settingsFigures, type Figure,
 } from "./figures.js";
 import { REPORT_CSS } from "./html-style.js";
 
@@ -98,6 +99,34 @@ async function columnCharts(column: ColumnProfile, profile: Profile): Promise<st
   return `<p class="meta">No charts: ${profiledAsLevels(column) ? "fewer than two levels" : "not profiled as levels"}.</p>`;
 }
 
+const headRow = (cells: readonly string[]): string => `<thead><tr>${cells.map((c) => `<th>${h(c)}</th>`).join("")}</tr></thead>`;
+
+/** The out-of-fold comparison: table (chosen row highlighted) beside its chart, then the rule's sentences. */
+async function evidenceSection(column: ColumnProfile): Promise<string> {
+  const e = column.evidence;
+  if (!e) return "";
+  const rows = evidenceRows(e).map((r) => `<tr${r.chosen ? ` class="chosen"` : ""}><td>${h(r.candidate)}</td><td class="params">${h(r.params)}</td>`
+    + `${[r.loss, r.se, r.score].map((c) => `<td class="num">${h(c)}</td>`).join("")}<td class="mark">${h(r.mark)}</td></tr>`);
+  const table = `<table class="evidence"><caption>Candidate encodings, scored out-of-fold</caption>\n${headRow(evidenceHeader(e))}\n<tbody>\n${rows.join("\n")}\n</tbody></table>`;
+  const chart = await chartFigure(evidenceChartSpec(column), `Each candidate's out-of-fold ${e.metric === "log-loss" ? "log loss" : "squared error"} `
+    + `(lower is better) with ±1 standard error across the ${e.folds} folds. Dashed line: the one-standard-error threshold; `
+    + "the simplest candidate at or left of it is chosen (red).");
+  const notes = evidenceNotes(column).map((n) => `<p>${h(n)}</p>`).join("\n");
+  return `<h3>Evidence (out-of-fold)</h3>\n<div class="split">\n${table}\n${chart}\n</div>\n${notes}`;
+}
+
+/** Detected structure: pattern, candidate parents and the backoff grouping. */
+function structureSection(column: ColumnProfile): string {
+  const hierarchy = column.hierarchy;
+  if (!hierarchy) return "";
+  const rows = parentRows(hierarchy).map(([parent, ...nums]) => `<tr><td>${h(parent ?? "")}</td>${nums.map((c) => `<td class="num">${h(c)}</td>`).join("")}</tr>`);
+  const parents = rows.length > 0
+    ? `<table class="parents"><caption>Candidate parents</caption>\n${headRow(parentHeader(hierarchy))}\n<tbody>\n${rows.join("\n")}\n</tbody></table>`
+    : `<p class="meta">No candidate parents.</p>`;
+  return `<h3>Structure</h3>\n${list(hierarchyNotes(hierarchy))}\n<div class="split">\n${parents}\n`
+    + `<table class="figures"><caption>Backoff grouping</caption>\n${figureRows(backoffFigures(hierarchy))}\n</table>\n</div>`;
+}
+
 async function columnSection(column: ColumnProfile, index: number, profile: Profile): Promise<string> {
   const rec = column.recommendation;
   const examples = column.variants?.examples.slice(0, 3) ?? [];
@@ -110,6 +139,8 @@ async function columnSection(column: ColumnProfile, index: number, profile: Prof
     topLevelsTable(column.topLevels, profile.target),
     `</div>`,
     await columnCharts(column, profile),
+    await evidenceSection(column),
+    structureSection(column),
   ];
   if (examples.length > 0) parts.push(`<h3>Spelling variants (examples)</h3>`, list(examples.map((g) => g.map(paramValueText).join(" / "))));
   parts.push(`<h3>Reasons</h3>`, list(rec.reasons.length > 0 ? rec.reasons : ["none given"]));
@@ -131,7 +162,8 @@ function overview(profile: Profile): string {
  * Renders the report of a profile as one self-contained HTML document: header (input, target,
  * settings), an overview table of all columns, a section per column with key figures, top
  * levels, charts (coverage curve; funnel plot with a target; collision curve with hashing
- * figures), reasons and cautions, and the standing cautions. Charts are rendered in sequence.
+ * figures), the out-of-fold evidence (table and chart) and the detected structure when the profile
+ * has them, reasons and cautions, and the standing cautions. Charts are rendered in sequence.
  * A profile without columns gets the header, "No columns were profiled." and the cautions.
  */
 export async function renderHtmlReport(profile: Profile): Promise<string> {

@@ -8,8 +8,9 @@ import type { ColumnProfile, LevelFigure, Profile, ProfileTarget } from "../prof
 import { escapeMarkdownCell, escapeMarkdownText } from "./escape.js";
 import { formatCompact, formatCount, formatShare } from "./format.js";
 import {
-  STANDING_CAUTIONS, decisionText, distinctText, headerFigures, inputNotes, keyFigures, levelText, paramValueText,
-  paramsText, settingsFigures, type Figure,
+  STANDING_CAUTIONS, backoffFigures, decisionText, distinctText, evidenceHeader, evidenceNotes, evidenceRows, headerFigures,
+  hierarchyNotes, inputNotes, keyFigures, levelText, paramValueText, paramsText, parentHeader, parentRows, settingsFigures,
+  type Figure,
 } from "./figures.js";
 
 const TOP_LEVELS_SHOWN = 10;
@@ -61,6 +62,28 @@ function topLevelsTable(levels: readonly LevelFigure[], profileTarget: ProfileTa
   return lines;
 }
 
+/** The out-of-fold comparison: one row per candidate (the chosen one in bold), then the rule's sentences. */
+function evidenceSection(column: ColumnProfile): string[] {
+  const e = column.evidence;
+  if (!e) return [];
+  const header = evidenceHeader(e);
+  const lines = [row(header), `| ${header.map(() => "---").join(" | ")} |`];
+  for (const r of evidenceRows(e)) {
+    const name = r.chosen ? `**${escapeMarkdownCell(r.candidate)}**` : escapeMarkdownCell(r.candidate);
+    lines.push(`| ${name} | ${[r.params, r.loss, r.se, r.score, r.mark].map(escapeMarkdownCell).join(" | ")} |`);
+  }
+  return ["**Evidence (out-of-fold)**", "", ...lines, "", ...evidenceNotes(column).flatMap((n) => [escapeMarkdownText(n), ""])];
+}
+
+/** Detected structure: pattern, candidate parents and the backoff grouping. */
+function structureSection(column: ColumnProfile): string[] {
+  const h = column.hierarchy;
+  if (!h) return [];
+  const parents = h.parents.length > 0 ? [...table(parentHeader(h), parentRows(h)), ""] : ["No candidate parents.", ""];
+  return ["**Structure**", "", ...bullets(hierarchyNotes(h)), "", ...parents,
+    ...figureTable(["backoff grouping", "value"], backoffFigures(h)), ""];
+}
+
 function columnSection(column: ColumnProfile, index: number, profile: Profile): string[] {
   const rec = column.recommendation;
   const out = [
@@ -78,6 +101,7 @@ function columnSection(column: ColumnProfile, index: number, profile: Profile): 
     const more = column.topLevels.length > TOP_LEVELS_SHOWN ? ` (first ${TOP_LEVELS_SHOWN} of ${column.topLevels.length})` : "";
     out.push(`**Top levels**${more}`, "", ...topLevelsTable(column.topLevels, profile.target), "");
   }
+  out.push(...evidenceSection(column), ...structureSection(column));
   out.push("**Reasons**", "", ...(rec.reasons.length > 0 ? bullets(rec.reasons) : ["- none given"]), "");
   if (rec.cautions && rec.cautions.length > 0) out.push("**Cautions**", "", ...bullets(rec.cautions), "");
   return out;
@@ -86,7 +110,8 @@ function columnSection(column: ColumnProfile, index: number, profile: Profile): 
 /**
  * Renders the decision record of a profile as Markdown: a header (tool, date, inputs, target,
  * settings), a summary table, one section per column (decision, parameters, key figures, top
- * levels, reasons, cautions) and the standing cautions. A profile without columns still gets a
+ * levels, the out-of-fold evidence and the detected structure when the profile has them, reasons,
+ * cautions) and the standing cautions. A profile without columns still gets a
  * header and says so. Deterministic: no clock, no locale, no randomness.
  */
 export function renderDecisionRecord(profile: Profile): string {
