@@ -2,11 +2,12 @@
  * encode/columnMaps: builds, per encoded column, the mapping tables its encoding reads (see
  * targetMaps.ts and countMaps.ts) and says which table the output query looks up and which
  * tables are written as mapping files (target encoding over a hierarchy: encode/structureMaps).
- * Encodings without a table (indicator, one-hot, pooled one-hot, hashing) return null: their
- * parameters alone define them.
+ * Encodings without a table (indicator, one-hot, pooled one-hot, plain hashing) return null:
+ * their parameters alone define them. Hashing of backoff groups: encode/hashedGroupMap.
  */
 import type { Engine } from "../engine/db.js";
 import { codesMap, frequencyMap } from "./countMaps.js";
+import { buildHashedGroupMap } from "./hashedGroupMap.js";
 import { INPUT_LEVELS, PLAN_LEVELS } from "./levelTables.js";
 import { foldFile, mainFile, type MappingFile } from "./mappingFiles.js";
 import { buildStructureMap } from "./structureMaps.js";
@@ -20,7 +21,7 @@ export interface ColumnMap {
   perFold: boolean;
   /** Tables written beside the output (see MappingFile). */
   files: MappingFile[];
-  /** Backoff / hierarchical: the per-level table the grouping counts read (encode/structureCounts). */
+  /** Backoff (target or hashing) / hierarchical: the per-level table the grouping counts read (encode/structureCounts). */
   levelTable?: string;
 }
 
@@ -41,6 +42,7 @@ export async function buildColumnMap(engine: Engine, column: EncodedColumn, ctx:
     else await codesMap(engine, i, name, spec.tableSize);
     return { table: mapTable(i), fields: ["value"], perFold: false, files: [mainFile(mapTable(i))] };
   }
+  if (spec.encoding === "hashing" && spec.grouping) return buildHashedGroupMap(engine, i, name, spec.width, spec.salt, spec.grouping);
   if (spec.encoding !== "target-kfold") return null;
   if (spec.structure) return buildStructureMap(engine, column, spec.structure, ctx);
   const m = spec.weight;

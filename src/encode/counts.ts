@@ -1,12 +1,14 @@
 /**
  * encode/counts: the summary counts of each encoded column, from level tables only (never the
  * rows): missing rows, unseen rows (levels absent from the plan's level table) and fallback
- * rows (non-missing rows that got the documented fallback), plus the fallback rule in words.
+ * rows (non-missing rows that got the documented fallback — for hashing of backoff groups, the
+ * rows sent to "other"), plus the fallback rule in words.
  */
 import type { Engine } from "../engine/db.js";
 import { quoteLiteral } from "../engine/sql.js";
 import { INPUT_LEVELS, PLAN_LEVELS } from "./levelTables.js";
 import type { ColumnMap } from "./columnMaps.js";
+import { hashedGroupFallbackCondition, hashedGroupFallbackRule } from "./hashedGroupMap.js";
 import { structureFallbackCondition, structureFallbackRule } from "./structureCounts.js";
 import { sqlDouble } from "./targetMaps.js";
 import type { EncodedColumn, EncodeMode } from "./types.js";
@@ -25,7 +27,7 @@ function fallbackCondition(column: EncodedColumn, mode: EncodeMode, leaveOneOut:
     case "indicator": return `l.level IS NOT NULL${notIn([spec.one, spec.zero])}`;
     case "one-hot": return `l.level IS NOT NULL${notIn(spec.levels)}`;
     case "pooled-one-hot": return `l.level IS NOT NULL${notIn(spec.keep)}`;
-    case "hashing": return "false";
+    case "hashing": return spec.grouping ? hashedGroupFallbackCondition : "false";
     case "frequency": return "l.level IS NOT NULL AND m.level IS NULL";
     case "codes": return "l.level IS NOT NULL AND coalesce(m.value, 0) = 0";
     case "target-kfold":
@@ -43,7 +45,7 @@ export function fallbackRule(column: EncodedColumn, mode: EncodeMode, leaveOneOu
     case "indicator": return "missing and other levels → 0";
     case "one-hot": return "missing, unseen and unlisted levels → all columns 0";
     case "pooled-one-hot": return "pooled and unseen levels → the other column; missing → all columns 0";
-    case "hashing": return "missing → NULL (unseen levels hash like any level)";
+    case "hashing": return spec.grouping ? hashedGroupFallbackRule(spec.width) : "missing → NULL (unseen levels hash like any level)";
     case "frequency": return "missing and unseen → share 0";
     case "codes": return "missing, pooled and unseen → code 0";
     case "target-kfold":

@@ -4,7 +4,8 @@
  *  - one-hot: `column=level` is 1 for that level; missing and unseen rows are all 0;
  *  - pooled one-hot: kept levels as one-hot, `column=other` is 1 for any other non-missing
  *    level (pooled or unseen); missing rows are all 0;
- *  - hashing: bucket = md5_number_upper(salt ‖ level) mod width (engine/hashing); missing → NULL;
+ *  - hashing: md5_number_upper(salt ‖ level) mod width (engine/hashing); of backoff groups, the
+ *    looked-up bucket of the group key, `width` for "other" (encode/hashedGroupMap); missing → NULL;
  *  - frequency, codes: the mapped value; missing and unseen → 0;
  *  - target (scoring): the full-data m-estimate; missing and unseen → p (the plan's target mean);
  *  - target (training, k-fold): the row's (level, fold) out-of-fold value; missing → the
@@ -71,7 +72,7 @@ export function columnSql(column: EncodedColumn, ctx: ExprContext): string[] {
       const notKept = spec.keep.length === 0 ? "" : ` AND ${c} NOT IN (${spec.keep.map(quoteLiteral).join(", ")})`;
       return [...spec.keep.map((l) => is(c, l)), `(${c} IS NOT NULL${notKept})::INTEGER`];
     }
-    case "hashing": return [`${bucketSql(c, spec.width, spec.salt)}`];
+    case "hashing": return [spec.grouping ? `${lookupOf(column, ctx).value("bucket")}::BIGINT` : bucketSql(c, spec.width, spec.salt)];
     case "frequency": return [`coalesce(${lookupOf(column, ctx).value("value")}, 0::DOUBLE)`];
     case "codes": return [`coalesce(${lookupOf(column, ctx).value("value")}, 0)::BIGINT`];
     case "target-kfold": return [targetSql(column, spec.structure ? null : spec.weight, ctx)];

@@ -6,7 +6,7 @@ import type { Engine } from "../engine/db.js";
 import { HASH_NAME } from "../engine/hashing.js";
 import { quoteLiteral } from "../engine/sql.js";
 import { pooledLabel } from "./names.js";
-import { structureManifestParams } from "./structureManifest.js";
+import { hashedGroupManifestParams, structureManifestParams } from "./structureManifest.js";
 import { foldPriorVar, priorVar } from "./targetMaps.js";
 import type { EncodedColumn, EncodeMode } from "./types.js";
 
@@ -22,7 +22,9 @@ async function paramsOf(engine: Engine, column: EncodedColumn, mode: EncodeMode,
     case "indicator": return { one: spec.one, zero: spec.zero, value: "1 when the level is `one`, else 0" };
     case "one-hot": return { levels: spec.levels, value: "column=level is 1 for that level, else 0" };
     case "pooled-one-hot": return { keep: spec.keep, otherColumn: `${column.name}=${pooledLabel(spec.keep, spec.other)}`, value: "kept levels one-hot; other = 1 for any other non-missing level" };
-    case "hashing": return { width: spec.width, salt: spec.salt, hash: HASH_NAME, value: "little-endian uint64 of the first 8 bytes of MD5(salt ‖ UTF-8 level), mod width" };
+    case "hashing":
+      if (spec.grouping) return hashedGroupManifestParams(spec.width, spec.salt, spec.grouping);
+      return { width: spec.width, salt: spec.salt, hash: HASH_NAME, value: "little-endian uint64 of the first 8 bytes of MD5(salt ‖ UTF-8 level), mod width" };
     case "frequency": return { value: "training rows of the level / all training rows" };
     case "codes": return { tableSize: spec.tableSize, value: "rank by descending training rows, ties by level text in byte order; ranks past tableSize → 0" };
     case "target-kfold": {

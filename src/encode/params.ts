@@ -6,7 +6,7 @@
 import { TailsiftError } from "../errors.js";
 import { HASH_NAME } from "../engine/hashing.js";
 import type { ColumnProfile } from "../profile/types.js";
-import { targetStructure } from "./structureParams.js";
+import { hashingGrouping, targetStructure } from "./structureParams.js";
 import type { EncodingSpec } from "./types.js";
 
 function bad(column: string, what: string): TailsiftError {
@@ -35,17 +35,19 @@ function positiveInteger(column: string, value: unknown, name: string): number {
  * Edge cases: indicator levels may be null (null = the missing level); one-hot with no levels
  * writes no column; codes without `tableSize` number every level; target-kfold needs a finite
  * weight m ≥ 0 (0 = raw means, with the prior used where a level has no rows); target-kfold with
- * `grouping: "backoff"` or `prior: "hierarchical"` is read by encode/structureParams.
- * @throws TailsiftError `bad_plan` for a missing or malformed parameter or an unknown encoding;
- *   `unsupported_plan` for a grouping on another encoding (the hashing of backoff groups that
- *   hierarchy/applyHierarchy advises for identifier-like columns without a target).
+ * `grouping: "backoff"` or `prior: "hierarchical"`, and hashing with `grouping: "backoff"` (the
+ * advice for identifier-like nesting codes without a target), are read by encode/structureParams.
+ * @throws TailsiftError `bad_plan` for a missing or malformed parameter, an unknown encoding or
+ *   grouping; `unsupported_plan` for a grouping on encodings other than target-kfold and hashing,
+ *   or a hierarchical prior on one other than target-kfold.
  */
 export function encodingSpec(column: ColumnProfile): EncodingSpec | "drop" | "keep" {
   const { encoding, params } = column.recommendation;
   const name = column.name;
-  if (encoding !== "target-kfold" && (params.grouping !== undefined || params.prior !== undefined)) {
+  const groupable = encoding === "target-kfold" || (encoding === "hashing" && params.prior === undefined);
+  if (!groupable && (params.grouping !== undefined || params.prior !== undefined)) {
     throw new TailsiftError("unsupported_plan",
-      `plan column '${name}': encode applies a grouping or a hierarchical prior only with target-kfold, not with ${String(encoding)}; rescan with --decide ${name}=${String(encoding)} to use the plain encoding`);
+      `plan column '${name}': encode applies a grouping only with target-kfold or hashing and a hierarchical prior only with target-kfold, not with ${String(encoding)}; rescan with --decide ${name}=${String(encoding)} to use the plain encoding`);
   }
   switch (encoding) {
     case "drop": return "drop";
@@ -61,7 +63,8 @@ export function encodingSpec(column: ColumnProfile): EncodingSpec | "drop" | "ke
       if (params.hash !== undefined && params.hash !== HASH_NAME) throw bad(name, `params.hash '${String(params.hash)}' is not supported (only ${HASH_NAME})`);
       const salt = params.salt ?? "";
       if (typeof salt !== "string") throw bad(name, "params.salt must be text");
-      return { encoding, width: positiveInteger(name, params.width, "width"), salt };
+      const width = positiveInteger(name, params.width, "width"), grouping = hashingGrouping(name, params);
+      return grouping ? { encoding, width, salt, grouping } : { encoding, width, salt };
     }
     case "frequency": return { encoding };
     case "codes": return { encoding, tableSize: params.tableSize === undefined ? 2 ** 53 : positiveInteger(name, params.tableSize, "tableSize") };

@@ -2,12 +2,13 @@
  * encode/structureCounts: the summary of target encoding over a hierarchy — which rows got the
  * prior (the fallback count), the rule in words, and where the input's levels went (backoff:
  * own group, a parent group, "other"; hierarchical: own mean, parent mean, prior), from the
- * level and mapping tables only, never the rows.
+ * level and mapping tables only, never the rows. Where the levels went is counted the same way
+ * for the hashing of backoff groups.
  */
 import type { Engine } from "../engine/db.js";
 import { quoteLiteral } from "../engine/sql.js";
 import { INPUT_LEVELS } from "./levelTables.js";
-import type { EncodeMode, GroupingCounts, TargetStructure } from "./types.js";
+import type { EncodeMode, EncodingSpec, GroupingCounts, HashGrouping, TargetStructure } from "./types.js";
 
 const isNull = (w: number | null) => (w === null ? "true" : "false");
 
@@ -29,13 +30,19 @@ export function structureFallbackRule(s: TargetStructure, mode: EncodeMode): str
   return `missing → ${p}; a level without target rows${mode === "training" ? " in other folds" : " (unseen included)"} → its parent's mean; a parent without any → ${p}`;
 }
 
+/** The grouping a column's levels go through: a target structure, a hashed backoff grouping, or none. */
+export function groupingOf(spec: EncodingSpec): TargetStructure | HashGrouping | undefined {
+  if (spec.encoding === "target-kfold") return spec.structure;
+  return spec.encoding === "hashing" ? spec.grouping : undefined;
+}
+
 /**
- * Counts over the input's non-missing levels joined to `levelTable` (backoff: encode/groupMap's
- * table; hierarchical: the full-data table). Hierarchical classes follow the full-data sums
+ * Counts over the input's non-missing levels joined to `levelTable` (backoff, target or hashing:
+ * encode/groupMap's table; hierarchical: the full-data table). Hierarchical classes follow the full-data sums
  * and weights: own mean when the level has target rows and m is not null, else the parent's
  * when the parent has target rows and M is not null, else the prior.
  */
-export async function groupingCounts(engine: Engine, name: string, s: TargetStructure, levelTable: string): Promise<GroupingCounts> {
+export async function groupingCounts(engine: Engine, name: string, s: TargetStructure | HashGrouping, levelTable: string): Promise<GroupingCounts> {
   const cls = s.kind === "backoff"
     ? "CASE WHEN t.depth = 0 THEN 'own' WHEN t.depth > 0 THEN 'parent' ELSE 'other' END"
     : `CASE WHEN t.n_y > 0 AND NOT ${isNull(s.weight)} THEN 'own' WHEN t.parent_n_y > 0 AND NOT ${isNull(s.parentWeight)} THEN 'parent' ELSE 'other' END`;

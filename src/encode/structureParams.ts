@@ -2,11 +2,12 @@
  * encode/structureParams: reads the hierarchy part of a target-kfold plan column — the backoff
  * grouping (`grouping: "backoff"`, `parents` deepest first, `minRows`, `weight`) or the
  * hierarchical prior (`prior: "hierarchical"`, `parent`, `weight`, `parentWeight`), as the
- * evidence writes them (evidence/hierarchyCandidates) — into a checked TargetStructure.
+ * evidence writes them (evidence/hierarchyCandidates) — into a checked TargetStructure; and the
+ * backoff grouping of a hashing column (hierarchy/applyHierarchy) into a HashGrouping.
  */
 import { TailsiftError } from "../errors.js";
 import { DELIMITERS, type ParentSpec } from "../hierarchy/types.js";
-import type { TargetStructure } from "./types.js";
+import type { HashGrouping, TargetStructure } from "./types.js";
 
 const bad = (column: string, what: string) => new TailsiftError("bad_plan", `plan column '${column}': ${what}; rescan or fix the plan`);
 
@@ -31,6 +32,31 @@ function weight(column: string, value: unknown, name: string): number | null {
 }
 
 /**
+ * The backoff grouping of a plan column (`grouping: "backoff"`, target-kfold or hashing):
+ * `parents` given deepest first (as in the plan), returned shallowest first, and `minRows`.
+ * Edge cases: an empty parents list, a malformed parent, minRows not a number ≥ 0 →
+ * TailsiftError `bad_plan`.
+ */
+export function backoffGrouping(column: string, params: Record<string, unknown>): HashGrouping {
+  const parents = params.parents;
+  if (!Array.isArray(parents) || parents.length === 0) throw bad(column, "params.parents must be a non-empty list of parents, deepest first");
+  const minRows = params.minRows;
+  if (typeof minRows !== "number" || !Number.isFinite(minRows) || minRows < 0) throw bad(column, "params.minRows must be a number ≥ 0");
+  const specs = parents.map((p, i) => parentSpec(column, p, `parents[${i}]`));
+  return { kind: "backoff", parents: specs.reverse(), minRows };
+}
+
+/**
+ * The grouping of a hashing column: undefined (plain hashing) or the backoff grouping.
+ * @throws TailsiftError `bad_plan` for another grouping or a malformed backoff grouping.
+ */
+export function hashingGrouping(column: string, params: Record<string, unknown>): HashGrouping | undefined {
+  if (params.grouping === undefined) return undefined;
+  if (params.grouping !== "backoff") throw bad(column, `unknown params.grouping '${String(params.grouping)}' (only "backoff")`);
+  return backoffGrouping(column, params);
+}
+
+/**
  * The structure of a target-kfold column, or undefined for flat target encoding. Backoff
  * `parents` are given deepest first (as in the plan) and returned shallowest first.
  * Edge cases: an empty parents list, both a grouping and a hierarchical prior, an unknown
@@ -40,14 +66,7 @@ export function targetStructure(column: string, params: Record<string, unknown>)
   const { grouping, prior } = params;
   if (grouping === undefined && prior === undefined) return undefined;
   if (grouping !== undefined && prior !== undefined) throw bad(column, "params has both a grouping and a prior; give one");
-  if (grouping === "backoff") {
-    const parents = params.parents;
-    if (!Array.isArray(parents) || parents.length === 0) throw bad(column, "params.parents must be a non-empty list of parents, deepest first");
-    const minRows = params.minRows;
-    if (typeof minRows !== "number" || !Number.isFinite(minRows) || minRows < 0) throw bad(column, "params.minRows must be a number ≥ 0");
-    const specs = parents.map((p, i) => parentSpec(column, p, `parents[${i}]`));
-    return { kind: "backoff", parents: specs.reverse(), minRows, weight: weight(column, params.weight, "weight") };
-  }
+  if (grouping === "backoff") return { ...backoffGrouping(column, params), weight: weight(column, params.weight, "weight") };
   if (prior === "hierarchical") {
     return {
       kind: "hierarchical", parent: parentSpec(column, params.parent, "parent"),

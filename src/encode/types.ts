@@ -12,7 +12,8 @@ export type EncodingSpec =
   | { encoding: "indicator"; one: string | null; zero: string | null }
   | { encoding: "one-hot"; levels: string[] }
   | { encoding: "pooled-one-hot"; keep: string[]; other: string }
-  | { encoding: "hashing"; width: number; salt: string }
+  | { encoding: "hashing"; width: number; salt: string; grouping?: undefined }
+  | { encoding: "hashing"; width: number; salt: string; grouping: HashGrouping }
   | { encoding: "frequency" }
   | { encoding: "codes"; tableSize: number }
   | { encoding: "target-kfold"; weight: number; structure?: undefined }
@@ -28,6 +29,14 @@ export type EncodingSpec =
 export type TargetStructure =
   | { kind: "backoff"; parents: ParentSpec[]; minRows: number; weight: number | null }
   | { kind: "hierarchical"; parent: ParentSpec; weight: number | null; parentWeight: number | null };
+
+/**
+ * Hashing of backoff groups (hierarchy/applyHierarchy's advice for identifier-like codes without
+ * a target): `parents` shallowest first (depth d = parents[d − 1]); each level goes to its backoff
+ * group (hierarchy/backoff's rule over the plan's rows, minRows), whose key text is hashed into
+ * 0..width − 1; the "other" group takes the extra index `width` (encode/hashedGroupMap).
+ */
+export interface HashGrouping { kind: "backoff"; parents: ParentSpec[]; minRows: number }
 
 /** One column that is encoded; `index` numbers the encoded columns (temp table and type names). */
 export interface EncodedColumn {
@@ -57,13 +66,14 @@ export interface ColumnSummary {
   fallbackRule: string;
   /** The mapping file for this column, relative to the mappings folder (if any). */
   file?: string;
-  /** Backoff and hierarchical target encoding: where the input's levels went. */
+  /** Backoff and hierarchical target encoding, hashing of backoff groups: where the input's levels went. */
   grouping?: GroupingCounts;
 }
 
 /**
- * Distinct non-missing input levels (and their rows) by what they received. Backoff: `own` =
- * kept as their own group, `parent` = backed off to a parent group, `other` = the "other" group.
+ * Distinct non-missing input levels (and their rows) by what they received. Backoff (target
+ * encoding or hashing of the groups): `own` = kept as their own group, `parent` = backed off to a
+ * parent group, `other` = the "other" group.
  * Hierarchical (judged on the full-data sums and the weights): `own` = the level's own
  * smoothed mean, `parent` = no target rows of its own (or a null level weight), so its
  * parent's mean, `other` = neither, so the prior. `unseen` = levels absent from the plan's

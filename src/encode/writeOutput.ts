@@ -20,7 +20,7 @@ import type { LookupKind, LookupRef } from "./lookup.js";
 import { manifestEntry } from "./manifest.js";
 import { mappingBaseNames, writeManifest, writeMappingTable } from "./mappingFiles.js";
 import { outputNames, textName } from "./names.js";
-import { groupingCounts } from "./structureCounts.js";
+import { groupingCounts, groupingOf } from "./structureCounts.js";
 import { commitDir, commitFile, mappingsDirFor, outputFormat } from "./outputFile.js";
 import type { ColumnPlan } from "./planColumns.js";
 import type { ColumnSummary, EncodeMode, EncodeSummary } from "./types.js";
@@ -92,7 +92,7 @@ export async function writeOutput(engine: Engine, ctx: WriteContext): Promise<En
       const rule = fallbackRule(column, o.mode, leaveOneOut);
       const counts = await columnCounts(engine, column, map, o.mode, leaveOneOut);
       const outputs = outputNames(column);
-      const structure = column.spec.encoding === "target-kfold" ? column.spec.structure : undefined;
+      const structure = groupingOf(column.spec);
       const grouping = structure && map?.levelTable ? await groupingCounts(engine, column.name, structure, map.levelTable) : undefined;
       columns.push({
         column: column.name, encoding: column.spec.encoding, outputs, ...counts, fallbackRule: rule,
