@@ -127,3 +127,17 @@ export function evidencePoints(evidence: Evidence): EvidencePoint[] {
     return { candidate: c.candidate, loss: c.loss, low: se === null ? null : c.loss - se, high: se === null ? null : c.loss + se };
   });
 }
+
+/**
+ * Splits a label into lines of at most `width` characters at spaces, greedily; a word longer than
+ * `width` gets a line of its own (never cut). The empty string → [""].
+ */
+export function wrapLabel(text: string, width: number): string[] {
+  const lines: string[] = [];
+  for (const word of text.split(" ")) {
+    const last = lines.length - 1;
+    if (last >= 0 && `${lines[last]} ${word}`.length <= width) lines[last] = `${lines[last]} ${word}`;
+    else lines.push(word);
+  }
+  return lines;
+}

@@ -10,7 +10,7 @@ import { TailsiftError } from "../errors.js";
 import { showControlCharacters } from "./escape.js";
 import { formatCompact, formatCount, formatShare } from "./format.js";
 import { label } from "../evidence/oneSe.js";
-import { Z_95, Z_998, coveragePoints, evidencePoints, funnelHalfWidth, funnelLimitPoints } from "./chart-data.js";
+import { Z_95, Z_998, coveragePoints, evidencePoints, funnelHalfWidth, funnelLimitPoints, wrapLabel } from "./chart-data.js";
 
 export { funnelLimitPoints } from "./chart-data.js";
 
@@ -186,17 +186,6 @@ export function collisionChartSpec(column: ColumnProfile, budget: number): Chart
     ] };
 }
 
-/** Splits a label into lines of at most `width` characters at spaces (a longer word gets a line of its own). */
-function wrapLabel(text: string, width: number): string[] {
-  const lines: string[] = [];
-  for (const word of text.split(" ")) {
-    const last = lines.length - 1;
-    if (last >= 0 && `${lines[last]} ${word}`.length <= width) lines[last] = `${lines[last]} ${word}`;
-    else lines.push(word);
-  }
-  return lines;
-}
-
 /**
  * A y-axis whose labels wrap onto lines of at most EVIDENCE_LABEL_WIDTH characters (vega draws an
  * array as lines, the first at the tick), each wrapped label moved up by half its extra lines so
@@ -239,8 +228,7 @@ export function evidenceChartSpec(column: ColumnProfile): ChartSpec | null {
   const y = { field: "candidate", type: "nominal", title: null, sort: labels, axis: wrappedLabelAxis(labels) };
   const x = { type: "quantitative", title: e.metric === "log-loss" ? "out-of-fold log loss (nats per row)" : "out-of-fold squared error per row",
     scale: { zero: false, padding: 10 }, axis: { tickCount: 5 } };
-  return { ...BASE, height: Math.max(60, 30 * values.length),
-    config: { ...BASE.config, axis: { ...BASE.config.axis, labelLimit: EVIDENCE_LABEL_WIDTH * 8 + 8 } }, description: "Out-of-fold loss of each candidate encoding",
+  return { ...BASE, height: Math.max(60, 30 * values.length), description: "Out-of-fold loss of each candidate encoding",
     title: "Candidates' out-of-fold loss, ±1 standard error",
     layer: [
       { data: { values: values.filter((v) => v.low !== null && v.high !== null) },

@@ -35,6 +35,11 @@ table.evidence td.params { max-width: 26em; font-size: 13px; color: var(--muted)
 table.evidence td.mark { white-space: nowrap; font-size: 13px; }
 table.evidence tr.chosen td { background: #fbeee6; font-weight: 600; }
 table.evidence tr.chosen td.params { color: var(--ink); }
+table.evidence { margin-bottom: 12px; }
+table.evidence td { vertical-align: baseline; }
+table.evidence tr.best td.mark { color: #24476b; font-weight: 600; }
+table.evidence tr.chosen td.mark { color: #c0392b; }
+.evidence-notes { flex: 1 1 320px; max-width: 640px; }
 .badge { display: inline-block; padding: 1px 8px; border-radius: 10px; font-size: 12px; font-weight: 600;
   background: #e8eef6; color: #24476b; white-space: nowrap; }
 .enc-drop { background: #eceff2; color: #4a5260; }

@@ -9,9 +9,11 @@ import { chartSvg, collisionChartSpec, coverageChartSpec, evidenceChartSpec, fun
 import { CONTROL_CHARACTERS, controlEscape, escapeHtml } from "./escape.js";
 import { formatCompact, formatCount, formatShare } from "./format.js";
 import {
-  STANDING_CAUTIONS, backoffFigures, distinctText, evidenceHeader, evidenceNotes, evidenceRows, headerFigures,
-  hierarchyNotes, inputNotes, keyFigures, levelText, overrideText, paramValueText, paramsText, parentHeader, parentRows,
-  profiledAsLevels, settingsFigures, type Figure,
+  backoffFigures, evidenceHeader, evidenceNotes, evidenceRows, hierarchyNotes, parentHeader, parentRows,
+} from "./evidence-figures.js";
+import {
+  STANDING_CAUTIONS, distinctText, headerFigures, inputNotes, keyFigures, levelText, overrideText, paramValueText,
+  paramsText, profiledAsLevels, settingsFigures, type Figure,
 } from "./figures.js";
 import { REPORT_CSS } from "./html-style.js";
 
@@ -101,18 +103,21 @@ async function columnCharts(column: ColumnProfile, profile: Profile): Promise<st
 
 const headRow = (cells: readonly string[]): string => `<thead><tr>${cells.map((c) => `<th>${h(c)}</th>`).join("")}</tr></thead>`;
 
-/** The out-of-fold comparison: table (chosen row highlighted) beside its chart, then the rule's sentences. */
+/** The out-of-fold comparison: the table (chosen row highlighted), then its chart beside the rule's sentences. */
 async function evidenceSection(column: ColumnProfile): Promise<string> {
   const e = column.evidence;
   if (!e) return "";
-  const rows = evidenceRows(e).map((r) => `<tr${r.chosen ? ` class="chosen"` : ""}><td>${h(r.candidate)}</td><td class="params">${h(r.params)}</td>`
+  const rowClass = (r: { chosen: boolean; best: boolean }) => [r.chosen ? "chosen" : "", r.best ? "best" : ""].filter((c) => c !== "").join(" ");
+  const rows = evidenceRows(e).map((r) => `<tr${rowClass(r) ? ` class="${rowClass(r)}"` : ""}><td>${h(r.candidate)}</td><td class="params">${h(r.params)}</td>`
     + `${[r.loss, r.se, r.score].map((c) => `<td class="num">${h(c)}</td>`).join("")}<td class="mark">${h(r.mark)}</td></tr>`);
-  const table = `<table class="evidence"><caption>Candidate encodings, scored out-of-fold</caption>\n${headRow(evidenceHeader(e))}\n<tbody>\n${rows.join("\n")}\n</tbody></table>`;
+  const table = `<table class="evidence">\n${headRow(evidenceHeader(e))}\n<tbody>\n${rows.join("\n")}\n</tbody></table>`;
   const chart = await chartFigure(evidenceChartSpec(column), `Each candidate's out-of-fold ${e.metric === "log-loss" ? "log loss" : "squared error"} `
     + `(lower is better) with ±1 standard error across the ${e.folds} folds. Dashed line: the one-standard-error threshold; `
     + "the simplest candidate at or left of it is chosen (red).");
-  const notes = evidenceNotes(column).map((n) => `<p>${h(n)}</p>`).join("\n");
-  return `<h3>Evidence (out-of-fold)</h3>\n<div class="split">\n${table}\n${chart}\n</div>\n${notes}`;
+  const notes = evidenceNotes(column);
+  const override = notes?.override ? `\n<p class="note">${h(notes.override)}</p>` : "";
+  const said = `<div class="evidence-notes">\n<p>${h(notes?.reason ?? "")}</p>\n<p>${h(notes?.threshold ?? "")}</p>${override}\n</div>`;
+  return `<h3>Evidence (out-of-fold)</h3>\n${table}\n<div class="split">\n${chart}\n${said}\n</div>`;
 }
 
 /** Detected structure: pattern, candidate parents and the backoff grouping. */
@@ -149,18 +154,24 @@ async function columnSection(column: ColumnProfile, index: number, profile: Prof
   return parts.filter((p) => p !== "").join("\n");
 }
 
+/** The first reason, with a link to the column's section when it gives more. */
+function mainReason(column: ColumnProfile, index: number): string {
+  const [first = "none given", ...rest] = column.recommendation.reasons;
+  return h(first) + (rest.length > 0 ? ` <a class="more" href="#col-${index + 1}">(${rest.length} more)</a>` : "");
+}
+
 function overview(profile: Profile): string {
   if (profile.columns.length === 0) return `<p>No columns were profiled.</p>`;
   const rows = profile.columns.map((c, i) => `<tr><td class="num">${i + 1}</td>`
     + `<td><a href="#col-${i + 1}">${h(c.name)}</a></td><td>${h(c.role)}</td><td class="num">${h(distinctText(c))}</td>`
-    + `<td>${badge(c)}</td><td class="reasons">${c.recommendation.reasons.map((r) => h(r)).join("<br>")}</td></tr>`);
-  return `<table class="overview">\n<thead><tr><th>#</th><th>column</th><th>role</th><th>distinct</th><th>decision</th><th>reasons</th></tr></thead>\n`
+    + `<td>${badge(c)}</td><td class="reasons">${mainReason(c, i)}</td></tr>`);
+  return `<table class="overview">\n<thead><tr><th>#</th><th>column</th><th>role</th><th>distinct</th><th>decision</th><th>main reason</th></tr></thead>\n`
     + `<tbody>\n${rows.join("\n")}\n</tbody></table>`;
 }
 
 /**
  * Renders the report of a profile as one self-contained HTML document: header (input, target,
- * settings), an overview table of all columns, a section per column with key figures, top
+ * settings), an overview table of all columns (decision and main reason), a section per column with key figures, top
  * levels, charts (coverage curve; funnel plot with a target; collision curve with hashing
  * figures), the out-of-fold evidence (table and chart) and the detected structure when the profile
  * has them, reasons and cautions, and the standing cautions. Charts are rendered in sequence.

@@ -8,9 +8,11 @@ import type { ColumnProfile, LevelFigure, Profile, ProfileTarget } from "../prof
 import { escapeMarkdownCell, escapeMarkdownText } from "./escape.js";
 import { formatCompact, formatCount, formatShare } from "./format.js";
 import {
-  STANDING_CAUTIONS, backoffFigures, decisionText, distinctText, evidenceHeader, evidenceNotes, evidenceRows, headerFigures,
-  hierarchyNotes, inputNotes, keyFigures, levelText, paramValueText, paramsText, parentHeader, parentRows, settingsFigures,
-  type Figure,
+  backoffFigures, evidenceHeader, evidenceNotes, evidenceRows, hierarchyNotes, parentHeader, parentRows,
+} from "./evidence-figures.js";
+import {
+  STANDING_CAUTIONS, decisionText, distinctText, headerFigures, inputNotes, keyFigures, levelText, paramValueText,
+  paramsText, settingsFigures, type Figure,
 } from "./figures.js";
 
 const TOP_LEVELS_SHOWN = 10;
@@ -72,7 +74,9 @@ function evidenceSection(column: ColumnProfile): string[] {
     const name = r.chosen ? `**${escapeMarkdownCell(r.candidate)}**` : escapeMarkdownCell(r.candidate);
     lines.push(`| ${name} | ${[r.params, r.loss, r.se, r.score, r.mark].map(escapeMarkdownCell).join(" | ")} |`);
   }
-  return ["**Evidence (out-of-fold)**", "", ...lines, "", ...evidenceNotes(column).flatMap((n) => [escapeMarkdownText(n), ""])];
+  const notes = evidenceNotes(column);
+  const said = notes ? [notes.reason, notes.threshold, ...(notes.override ? [notes.override] : [])] : [];
+  return ["**Evidence (out-of-fold)**", "", ...lines, "", ...said.flatMap((n) => [escapeMarkdownText(n), ""])];
 }
 
 /** Detected structure: pattern, candidate parents and the backoff grouping. */

@@ -1,8 +1,9 @@
 import { describe, it, expect } from "vitest";
+import fc from "fast-check";
 import type { ColumnProfile, ProfileTarget } from "../../src/profile/types.js";
-import { Z_95, Z_998, coveragePoints, funnelHalfWidth, logGrid } from "../../src/render/chart-data.js";
+import { Z_95, Z_998, coveragePoints, evidencePoints, funnelHalfWidth, logGrid, wrapLabel } from "../../src/render/chart-data.js";
 import {
-  chartSvg, collisionChartSpec, coverageChartSpec, funnelChartSpec, funnelLimitPoints,
+  chartSvg, collisionChartSpec, coverageChartSpec, evidenceChartSpec, funnelChartSpec, funnelLimitPoints,
 } from "../../src/render/charts.js";
 import { loadFixture } from "./load-fixture.js";
 
@@ -155,5 +156,81 @@ describe("chartSvg", () => {
   it("refuses to load data from anywhere", async () => {
     await expect(chartSvg({ data: { url: "https://example.invalid/data.csv" }, mark: "point",
       encoding: { x: { field: "a", type: "quantitative" } } })).rejects.toThrow(/inline data only|chart/);
+  });
+});
+
+describe("wrapLabel", () => {
+  it("breaks at spaces into lines of at most the width, keeps a long word whole, and loses no text", () => {
+    expect(wrapLabel("target encoding with a hierarchical prior", 22)).toEqual(["target encoding with a", "hierarchical prior"]);
+    expect(wrapLabel("pooled one-hot", 22)).toEqual(["pooled one-hot"]);
+    expect(wrapLabel("a supercalifragilistic b", 5)).toEqual(["a", "supercalifragilistic", "b"]);
+    expect(wrapLabel("", 5)).toEqual([""]);
+    fc.assert(fc.property(fc.array(fc.stringMatching(/^[a-z]{1,8}$/), { minLength: 1, maxLength: 12 }), fc.integer({ min: 1, max: 30 }), (words, width) => {
+      const lines = wrapLabel(words.join(" "), width);
+      return lines.join(" ") === words.join(" ") && lines.every((l) => l.length <= width || !l.includes(" "));
+    }));
+  });
+});
+
+describe("evidenceChartSpec", () => {
+  const fixture = loadFixture("binary");
+  const withEvidence = fixture.columns.filter((c) => c.evidence !== undefined);
+  const postcode = fixture.columns.find((c) => c.name === "postcode_district")!;
+  const byMark = (spec: Layer[], type: string) => spec.find((l) => l.mark.type === type)!.data.values;
+
+  it("plots each candidate's loss, loss − SE and loss + SE, and the threshold, as the evidence holds them", () => {
+    expect(withEvidence.length).toBe(3);
+    for (const column of withEvidence) {
+      const e = column.evidence!;
+      const spec = layers(evidenceChartSpec(column));
+      const points = byMark(spec, "point");
+      const bars = byMark(spec, "errorbar");
+      expect(points.map((p) => p.loss)).toEqual(e.candidates.map((c) => c.loss));
+      e.candidates.forEach((c, i) => {
+        // plain computation: the bar runs from loss − SE to loss + SE
+        expect(bars[i]!.low).toBeCloseTo(c.loss - c.se!, 12);
+        expect(bars[i]!.high).toBeCloseTo(c.loss + c.se!, 12);
+      });
+      expect(byMark(spec, "rule")).toEqual([{ threshold: e.threshold }]);
+    }
+  });
+  it("draws ±1 standard error as the sample sd of the fold losses over √K (plain computation)", () => {
+    const bars = byMark(layers(evidenceChartSpec(postcode)), "errorbar");
+    postcode.evidence!.candidates.forEach((c, i) => {
+      const k = c.foldLosses.length;
+      const mean = c.foldLosses.reduce((a, b) => a + b, 0) / k;
+      const sd = Math.sqrt(c.foldLosses.reduce((a, b) => a + (b - mean) ** 2, 0) / (k - 1));
+      expect(((bars[i]!.high as number) - (bars[i]!.low as number)) / 2).toBeCloseTo(sd / Math.sqrt(k), 10);
+    });
+  });
+  it("puts the threshold at the best loss plus its SE (one-SE rule, Breiman et al. 1984 §3.4.3) and marks best and chosen", () => {
+    const e = postcode.evidence!;
+    const best = e.candidates.reduce((a, b) => (b.loss < a.loss ? b : a));
+    const spec = layers(evidenceChartSpec(postcode));
+    expect(byMark(spec, "rule")[0]!.threshold).toBeCloseTo(best.loss + best.se!, 12);
+    const roles = byMark(spec, "point").map((p) => p.role);
+    expect(roles).toEqual(["candidate", "candidate", "candidate", "chosen", "best (lowest loss)"]); // fixture: backoff chosen, hierarchical best
+    const nasty = fixture.columns[9]!;
+    expect(byMark(layers(evidenceChartSpec(nasty)), "point").map((p) => p.role)).toEqual(["candidate", "candidate", "best and chosen"]);
+  });
+  it("keeps a candidate without a standard error as a point without a bar, drops a non-finite loss, and needs evidence", async () => {
+    const e = { ...postcode.evidence!, candidates: [
+      { candidate: "overall-mean" as const, params: {}, loss: 0.36, se: null, foldLosses: [0.36] },
+      { candidate: "target-kfold" as const, params: {}, loss: Number.NaN, se: 0.01, foldLosses: [] },
+    ], best: "overall-mean" as const, chosen: "overall-mean" as const, threshold: 0.36 };
+    expect(evidencePoints(e)).toEqual([{ candidate: "overall-mean", loss: 0.36, low: null, high: null }]);
+    const spec = layers(evidenceChartSpec(column({ evidence: e })));
+    expect(byMark(spec, "point").length).toBe(1);
+    expect(byMark(spec, "errorbar")).toEqual([]);
+    expect(await chartSvg(evidenceChartSpec(column({ evidence: e }))!)).not.toMatch(/NaN/); // renders with no bars at all
+    expect(evidenceChartSpec(column({}))).toBeNull();
+    expect(evidenceChartSpec(column({ evidence: { ...e, candidates: [e.candidates[1]!] } }))).toBeNull();
+  });
+  it("renders to SVG with the candidate names wrapped onto lines and no NaN", async () => {
+    const svg = await chartSvg(evidenceChartSpec(postcode)!);
+    expect(svg.startsWith("<svg")).toBe(true);
+    expect(svg).toContain(">backoff grouping then</tspan>");
+    expect(svg).toContain(">target encoding</tspan>");
+    expect(svg).not.toMatch(/NaN|undefined/);
   });
 });

@@ -15,6 +15,7 @@ export function expectedChartCount(profile: Profile): number {
     if (c.distinct >= 2 && ((c.countOfCounts?.length ?? 0) > 0 || c.coverage.length > 0)) charts += 1;
     if (profile.target && new Set((c.target?.funnel ?? []).map((f) => f.rows)).size >= 2) charts += 1;
     if ((c.hashing?.candidates.length ?? 0) > 0) charts += 1;
+    if ((c.evidence?.candidates ?? []).some((e) => Number.isFinite(e.loss))) charts += 1;
   }
   return charts;
 }

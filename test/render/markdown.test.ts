@@ -108,3 +108,66 @@ describe("renderDecisionRecord", () => {
     expect(md).toContain("## Cautions");
   });
 });
+
+describe("renderDecisionRecord: evidence and structure", () => {
+  const section = (md: string, n: number) => md.slice(md.indexOf(`### ${n}. `), md.indexOf(`### ${n + 1}. `));
+  /** Mean and SE (sample sd / √K) of a candidate's fold losses: plain computation, independent of the renderer. */
+  const foldStats = (losses: number[]) => {
+    const mean = losses.reduce((a, b) => a + b, 0) / losses.length;
+    const sd = Math.sqrt(losses.reduce((a, b) => a + (b - mean) ** 2, 0) / (losses.length - 1));
+    return { mean, se: sd / Math.sqrt(losses.length) };
+  };
+
+  it("tables every candidate with its loss, SE and AUC, marks best and chosen, and states the rule", () => {
+    const profile = loadFixture("binary");
+    const md = section(renderDecisionRecord(profile), 6);
+    const e = profile.columns[5]!.evidence!;
+    expect(md).toContain("**Evidence (out-of-fold)**");
+    expect(md).toContain("| candidate | key parameters | out-of-fold log loss | ± SE | AUC | one-SE rule |");
+    const marks: Record<string, string> = { "backoff-target-kfold": "chosen", "hierarchical-target-kfold": "best" };
+    for (const c of e.candidates) {
+      const { mean, se } = foldStats(c.foldLosses);
+      expect(md).toContain(` | ${mean.toFixed(5)} | ${se.toFixed(5)} | ${c.auc!.toFixed(3)} | ${marks[c.candidate] ?? ""} |`);
+    }
+    expect(md).toContain("| **backoff grouping then target encoding** | parents first 1 token (split on ' '); ≥ 30 rows; 958 groups; m = 36.9 |");
+    expect(md).toContain("| target encoding with a hierarchical prior | parent first 1 token (split on ' '), 460 groups; m = 52.7, parent m = 41.3 |");
+    expect(md).toContain("Backoff grouping then target encoding (out-of-fold log loss 0.35760) is within one standard error of the best");
+    // one-SE rule (Breiman et al. 1984 §3.4.3): threshold = best loss + its SE, best = hierarchical prior here
+    const best = foldStats(e.candidates[4]!.foldLosses);
+    expect(md).toContain(`One-standard-error threshold: ${(best.mean + best.se).toFixed(5)} (the best loss plus its standard error); 5 folds, 119,640 rows scored.`);
+    expect(section(renderDecisionRecord(profile), 7)).not.toContain("Evidence (out-of-fold)");
+  });
+
+  it("lists the structure: pattern, candidate parents and the backoff grouping", () => {
+    const md = section(renderDecisionRecord(loadFixture("binary")), 6);
+    expect(md).toContain("**Structure**");
+    expect(md).toContain("- Delimited codes of two tokens split by \" \"; 99.9 % of 2,000 sampled levels follow it.");
+    expect(md).toContain("| parent | groups | rows in groups of ≥ 30 rows | median group rows |");
+    expect(md).toContain("| first 1 token (split on ' ') — prior parent | 460 | 98.1 % | 176 |");
+    expect(md).toContain("| coverage (rows not in \"other\") | 99.7 % |"); // 0.997175
+    expect(md).toContain("| rows backed off to a parent | 20.1 % |"); // 0.2012
+    expect(md).toContain("| rows in \"other\" | 0.3 % |"); // 0.002825
+  });
+
+  it("says when the user's choice differs from the evidence's, and only then", () => {
+    const profile = loadFixture("binary");
+    expect(section(renderDecisionRecord(profile), 8)).toContain("The user chose hashing; the evidence favoured pooled one-hot.");
+    const agrees = loadFixture("binary");
+    agrees.columns[7]!.recommendation = { ...agrees.columns[7]!.recommendation, encoding: "pooled-one-hot" };
+    expect(section(renderDecisionRecord(agrees), 8)).not.toContain("The user chose");
+    const flat = loadFixture("binary");
+    flat.columns[5]!.recommendation = { encoding: "target-kfold", params: { weight: 38.4 }, reasons: [], overridden: { from: "target-kfold", by: "user" } };
+    expect(section(renderDecisionRecord(flat), 6)).toContain("The user chose target encoding; the evidence favoured backoff grouping then target encoding.");
+    expect(section(renderDecisionRecord(loadFixture("binary")), 6)).not.toContain("The user chose"); // not overridden
+  });
+
+  it("escapes level values kept by the pooled candidate", () => {
+    const profile = loadFixture("binary");
+    const pooled = profile.columns[9]!.evidence!.candidates[1]!;
+    pooled.params = { ...pooled.params, keep: ["line1\nline2", "=cmd|' /C calc'!A0", "`rm -rf`", "plain"] };
+    const md = section(renderDecisionRecord(profile), 10);
+    expect(md).toContain("| pooled one-hot | keep 4 (\"line1\\nline2\", \"=cmd\\|' /C calc'!A0\", \"\\`rm -rf\\`\", …) + other; 7.4 % of rows pooled |");
+    expect(section(renderDecisionRecord(loadFixture("binary")), 10))
+      .toContain("keep 15 (\"\\<script\\>alert(1)\\</scrip…\", \"Tom \\& \"Jerry\"\", \"a\\|b\", …)");
+  });
+});
