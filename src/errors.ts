@@ -55,13 +55,17 @@ export function diagnoseEngineMessage(text: string, where?: string): Diagnosis |
   if (/Invalid unicode|not utf-8 encoded/i.test(text)) {
     return { code: "bad_encoding", message: `cannot read ${file}: it is not UTF-8 text (invalid bytes near${at || " the start"}); pass --encoding latin-1 (or utf-16) if the file uses that encoding` };
   }
+  const notEncoded = /File is not ([\w-]+) encoded/i.exec(text);
+  if (notEncoded) {
+    return { code: "bad_encoding", message: `cannot read ${file}: it is not ${notEncoded[1]} text; give the file's encoding with --encoding (utf-8, latin-1 or utf-16)` };
+  }
   const long = /Maximum line size of (\d+) bytes exceeded\. Actual Size:\s*(\d+)/.exec(text);
   if (long) {
     const mib = (n: string) => `${(Number(n) / MiB).toFixed(1)} MiB`;
     return { code: "line_too_long", message: `cannot read ${file} near${at || " the start"}: a line of ${mib(long[2] ?? "0")} is longer than the ${mib(long[1] ?? "0")} tailsift reads; shorten or split that field` };
   }
   if (/Error when sniffing file|not possible to automatically detect the CSV/i.test(text)) {
-    return { code: "unreadable_csv", message: `cannot read ${file}: no consistent CSV layout found (binary data, or not a CSV file?); check the file, or give --delimiter and --encoding` };
+    return { code: "unreadable_csv", message: `cannot read ${file}: no consistent CSV layout found (lines differ in delimiter, quoting, field count or line ending, or it is not CSV text); check the file, or give --delimiter` };
   }
   const json = /Malformed JSON in file "[^"]*", at byte \d+ in line (\d+): ([^\n.]*)/.exec(text);
   if (json) {
@@ -77,10 +81,9 @@ export function diagnoseEngineMessage(text: string, where?: string): Diagnosis |
   }
   const io = /IO Error: (?:Cannot open file|Could not open file) "([^"]+)": (.*)/.exec(text);
   if (io) return { code: "input_unreadable", message: `cannot open '${io[1]}': ${(io[2] ?? "").trim().toLowerCase()}; check that it exists and is readable` };
-  const oom = /Out of Memory Error: .*?\(([^)]*) used\)/.exec(text);
-  if (oom || /Out of Memory Error/.test(text)) {
-    const used = oom?.[1] ? ` (${oom[1]} used)` : "";
-    return { code: "out_of_memory", message: `ran out of memory${used}; raise --memory-limit, use --threads 1, give --temp-dir a folder with free space, or measure fewer columns with --columns` };
+  if (/Out of Memory Error/.test(text)) {
+    const limit = /\(([^/()]+)\/([^/()]+) used\)/.exec(text)?.[2];
+    return { code: "out_of_memory", message: `ran out of memory${limit ? ` (limit ${limit.trim()})` : ""}; raise --memory-limit, use --threads 1, give --temp-dir a folder with free space, or measure fewer columns with --columns` };
   }
   return null;
 }

@@ -141,12 +141,14 @@ function normaliseEncoding(encoding: string): string {
   throw new TailsiftError("bad_option", `--encoding '${encoding}' is not supported; use utf-8, latin-1 or utf-16`);
 }
 
+const isInterrupt = (err: unknown) => isTailsiftError(err) && err.code === "interrupted";
+
 /** Runs `work`, re-reading an engine error with the input named (DuckDB leaves it out while sniffing). */
 async function reading<T>(files: readonly string[], doing: string, work: () => Promise<T>): Promise<T> {
   try {
     return await work();
   } catch (err) {
-    if (isTailsiftError(err) && err.code !== "interrupted" && err.cause !== undefined) throw wrapEngineError(err.cause, doing, describeFiles(files));
+    if (isTailsiftError(err) && !isInterrupt(err) && err.cause !== undefined) throw wrapEngineError(err.cause, doing, describeFiles(files));
     throw err;
   }
 }
@@ -159,8 +161,9 @@ async function describe(engine: Engine, reader: string, files: readonly string[]
 
 /**
  * Refuses binary data named .csv before DuckDB guesses a layout for it: more than 5 % control
- * bytes (other than tab, CR, LF, ESC), and at least 8 of them, in the first 8 KiB. UTF-16 text has NUL in every other byte,
- * so the message suggests --encoding utf-16 unless it was given. Compressed files are not checked.
+ * bytes (other than tab, CR, LF, ESC), and at least 8 of them, in the first 8 KiB. UTF-16 text
+ * has NUL in every other byte, so the message suggests --encoding utf-16 unless it was given.
+ * Compressed files are not checked (DuckDB reports a bad .gz itself).
  */
 function refuseBinary(file: string, options: SourceOptions): void {
   if (/\.(gz|gzip|zst)$/i.test(file) || normaliseEncoding(options.encoding ?? "utf-8") === "utf-16") return;
@@ -194,7 +197,8 @@ async function firstRejectedRow(engine: Engine, format: InputFormat, files: read
         `SELECT e.line, e.error_message AS message FROM reject_errors e
          WHERE e.scan_id = (SELECT max(scan_id) FROM reject_scans) ORDER BY e.line LIMIT 1`, "reading the first bad row");
       if (row) return wrapEngineError(new Error(`CSV Error on Line: ${row.line}\n${row.message}\n  file = ${file}`), `reading '${file}'`);
-    } catch {
+    } catch (err) {
+      if (isInterrupt(err)) throw err;
       return null;
     }
   }
@@ -281,7 +285,8 @@ async function describeCsv(engine: Engine, format: InputFormat, reader: string, 
     failure = err;
   }
   if (!options.skipBadRows && (columns === null || (columns.length === 1 && DELIMITERS.test(columns[0] ?? "")))) {
-    const lenient = await describe(engine, readerSql(format, files, options, { ignoreErrors: true, storeRejects: false }), files).catch(() => null);
+    const lenient = await describe(engine, readerSql(format, files, options, { ignoreErrors: true, storeRejects: false }), files)
+      .catch((err: unknown) => { if (isInterrupt(err)) throw err; return null; });
     if (lenient && lenient.length > (columns?.length ?? 0)) {
       const bad = await firstRejectedRow(engine, format, files, options);
       if (bad) throw bad;
