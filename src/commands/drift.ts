@@ -1,3 +1,4 @@
+import path from "node:path";
 /**
  * commands/drift: orchestration only. Reads a plan (profile.json + levels.parquet), makes one pass
  * over the new extract that builds its level table (the same GROUPING SETS query as scan, with
@@ -43,7 +44,8 @@ export async function drift(inputs: readonly string[], planPath: string, options
   const thresholds = resolveThresholds(options.thresholds);
   const { profilePath, levelsPath } = locatePlan(planPath);
   const profile = readProfile(profilePath);
-  return withEngine(options, async (engine) => {
+  const lockToPaths = options.lockToPaths ?? [...inputs, path.dirname(path.resolve(profilePath))];
+  return withEngine({ ...options, lockToPaths }, async (engine) => {
     options.onEngine?.(engine);
     try {
       await loadPlanLevels(engine, levelsPath);

@@ -69,7 +69,9 @@ export async function encode(inputs: readonly string[], options: EncodeOptions):
   refuseInputAsOutput(options.out, [...inputs, profilePath, levelsPath]);
   outputFormat(options.out);
   ensureOutputDir(path.dirname(path.resolve(options.out)));
-  return withEngine(options, async (engine) => {
+  // DuckDB may only touch the inputs, the plan's folder and the output's folder (plus its temp dir)
+  const lockToPaths = options.lockToPaths ?? [...inputs, path.dirname(path.resolve(options.out)), path.dirname(path.resolve(profilePath))];
+  return withEngine({ ...options, lockToPaths }, async (engine) => {
     options.onEngine?.(engine);
     try {
       return await encodeWith(engine, inputs, profile, levelsPath, { ...options, foldColumn });

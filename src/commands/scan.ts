@@ -20,7 +20,7 @@ import {
   binaryIntervalGroups, buildLevelTotals, findVariants, funnelLevels, streamContinuousLevels,
   summariseLevels, targetColumnSums, type IntervalGroup, type LevelRow,
 } from "../engine/levels.js";
-import { openSource, type Source, type SourceOptions } from "../engine/source.js";
+import { checkMeasuredWidth, countSkippedRows, describeFiles, openSource, type Source, type SourceOptions } from "../engine/source.js";
 import { resolveTarget, type TargetSpec } from "../engine/target.js";
 import { TailsiftError } from "../errors.js";
 import { columnFigures, isIdentifierLike, unmeasuredColumn } from "../profile/columnFigures.js";
@@ -90,6 +90,7 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
     const excluded = new Set(options.exclude ?? []);
     const forced = new Set(options.asCategorical ?? []);
     const candidates = source.columns.filter((c) => c !== options.target && !excluded.has(c) && (chosen === null || chosen.has(c)));
+    checkMeasuredWidth(candidates.length, source);
     const samples = await sampleColumns(engine, source.view, candidates);
     const numeric = samples.filter((s) => !forced.has(s.name) && looksNumeric(s)).map((s) => s.name);
     const levelColumns = candidates.filter((c) => !numeric.includes(c));
@@ -104,12 +105,16 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
       view: source.view, identityColumns: source.columns, levelColumns, countColumns: numeric,
       target: targetSpec, folds: policy.folds, seed: policy.seed,
     }, `scanning ${source.files.length === 1 ? `'${source.files[0]}'` : `${source.files.length} files`}`);
-    if (totals.rows === 0) throw new TailsiftError("empty_input", "the input has a header but no rows");
+    if (totals.rows === 0) throw new TailsiftError("empty_input", `${describeFiles(source.files)} has a header but no rows; give a file with rows`);
+    const skippedRows = await countSkippedRows(engine, source);
 
     const target = targetSpec ? checkTarget(targetSpec, totals) : undefined;
     return adviseFromLevelTable(engine, {
       levelColumns, numeric, allColumns: source.columns, totals, target, policy, top, options,
-      input: { paths: source.files, rows: totals.rows, bytes: source.bytes, fingerprint: source.fingerprint, format: source.format },
+      input: {
+        paths: source.files, rows: totals.rows, bytes: source.bytes, fingerprint: source.fingerprint, format: source.format,
+        ...(skippedRows !== undefined ? { skippedRows } : {}),
+      },
     });
   }
 }

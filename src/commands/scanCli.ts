@@ -13,7 +13,7 @@ import { redactProfile } from "../profile/redact.js";
 import { renderHtmlReport } from "../render/html.js";
 import { renderDecisionRecord } from "../render/markdown.js";
 import { renderTable } from "../render/table.js";
-import { ensureOutputDir, refuseInputAsOutput, writeFileAtomic } from "./output.js";
+import { ensureOutputDir, pendingTemps, refuseInputAsOutput, tempPathFor, writeFileAtomic } from "./output.js";
 import { scanLevels } from "./levels.js";
 import { scan } from "./scan.js";
 import { levelScanOptions } from "./sqlCli.js";
@@ -40,14 +40,29 @@ export async function runScan(inputs: string[], o: ScanCliOptions, io: IO, onEng
     refuseInputAsOutput(o.out, inputs);
     ensureOutputDir(o.out);
   }
-  const measured = o.levels ? await scanLevels(inputs, levelScanOptions(o, onEngine)) : await scan(inputs, {
+  // levels.parquet is written to a temp name during the scan and renamed only after the other
+  // three files are in place, so a failed run never pairs a new level table with an old profile
+  const levelFinal = o.out && !o.redact ? path.join(o.out, LEVEL_FILE_NAME) : undefined;
+  const levelTemp = levelFinal ? tempPathFor(levelFinal).replace(/\.tmp$/, ".pending.tmp") : undefined;
+  if (levelTemp) pendingTemps.add(levelTemp);
+  try {
+    await scanAndWrite(inputs, o, io, onEngine, levelTemp);
+    if (levelTemp && levelFinal) fs.renameSync(levelTemp, levelFinal);
+  } finally {
+    if (levelTemp) { fs.rmSync(levelTemp, { force: true }); pendingTemps.delete(levelTemp); }
+  }
+}
+
+async function scanAndWrite(inputs: string[], o: ScanCliOptions, io: IO, onEngine: (e: Engine | null) => void, levelTemp: string | undefined): Promise<void> {
+  const measured = o.levels ? await scanLevels(inputs, { ...levelScanOptions(o, onEngine), levelTableOut: levelTemp }) : await scan(inputs, {
     target: o.target, positive: o.positive, targetKind: o.targetKind,
     columns: o.columns, exclude: o.exclude, asCategorical: o.asCategorical, top: o.top,
     policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget },
     decide: o.decide,
     memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
     skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter,
-    levelTableOut: o.out && !o.redact ? path.join(o.out, LEVEL_FILE_NAME) : undefined,
+    levelTableOut: levelTemp,
+    lockToPaths: [...inputs, ...(o.out ? [o.out] : [])],
     onEngine,
   });
   const profile = o.redact ? redactProfile(measured, process.env.TAILSIFT_REDACT_KEY || undefined) : measured;

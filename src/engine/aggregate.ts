@@ -72,9 +72,24 @@ FROM (SELECT ${inner.join(", ")} FROM ${plan.view})
 GROUP BY GROUPING SETS (${sets.join(", ")})`;
 }
 
+/**
+ * Columns counted per query. GROUPING SETS memory grows faster than the number of sets (measured:
+ * 250 columns 0.9 GB, 1,000 columns 4.9 GB on 50 rows), so wider inputs are counted in batches of
+ * this many columns — one pass per batch; every input of up to PASS_BATCH columns is one pass.
+ */
+export const PASS_BATCH = 200;
+
 /** Runs the pass and returns the totals; the level table stays in DuckDB. */
 export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "scanning the input"): Promise<PassTotals> {
-  await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TABLE} AS ${levelPassSql(plan)}`, doing);
+  const first = plan.levelColumns.slice(0, PASS_BATCH);
+  await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TABLE} AS ${levelPassSql({ ...plan, levelColumns: first })}`, doing);
+  for (let offset = PASS_BATCH; offset < plan.levelColumns.length; offset += PASS_BATCH) {
+    const batch = plan.levelColumns.slice(offset, offset + PASS_BATCH);
+    const sql = levelPassSql({ ...plan, levelColumns: batch, countColumns: [] });
+    await engine.run(
+      `INSERT INTO ${LEVEL_TABLE} BY NAME SELECT col + ${sqlNumber(offset)} AS col, level, fold, rows, n_y, sum_y, sum_y2, bad FROM (${sql}) WHERE col >= 0`,
+      `${doing} (columns ${offset + 1}–${offset + batch.length})`);
+  }
   const counts = plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("");
   const rows = await engine.rows<Record<string, number>>(
     `SELECT fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, bad::DOUBLE AS bad${counts}

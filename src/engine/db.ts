@@ -127,6 +127,12 @@ export function allowedPaths(entries: readonly string[], tempDir: string): { dir
   return { directories: [...directories], files: [...files] };
 }
 
+/** TAILSIFT_TRACE=1 prints each engine step and its wall time to stderr (for profiling). */
+const trace = process.env.TAILSIFT_TRACE === "1";
+function traceLine(doing: string, began: number): void {
+  process.stderr.write(`[tailsift] ${String(Date.now() - began).padStart(6)} ms  ${doing}\n`);
+}
+
 function toPlain(value: unknown): unknown {
   if (typeof value === "bigint") return Number(value);
   return value;
@@ -158,10 +164,13 @@ export async function openEngine(options: EngineOptions = {}): Promise<Engine> {
   }
   const connection = await instance.connect();
   const run = async (sql: string, doing: string, params?: Record<string, DuckDBValue>) => {
+    const began = trace ? Date.now() : 0;
     try {
       await connection.run(sql, params);
     } catch (err) {
       throw wrapEngineError(err, doing);
+    } finally {
+      if (trace) traceLine(doing, began);
     }
   };
   try {
@@ -186,11 +195,14 @@ export async function openEngine(options: EngineOptions = {}): Promise<Engine> {
     connection,
     run,
     async rows<T>(sql: string, doing: string, params?: Record<string, DuckDBValue>): Promise<T[]> {
+      const began = trace ? Date.now() : 0;
       try {
         const reader = await connection.runAndReadAll(sql, params);
         return reader.getRowObjectsJS().map((r) => plainRow(r as Record<string, unknown>)) as T[];
       } catch (err) {
         throw wrapEngineError(err, doing);
+      } finally {
+        if (trace) traceLine(doing, began);
       }
     },
     async stream(sql, doing, onRows) {

@@ -21,7 +21,17 @@ export interface ColumnSample {
 
 /** Per-column counts over the first SAMPLE_ROWS rows. */
 export async function sampleColumns(engine: Engine, view: string, columns: readonly string[]): Promise<ColumnSample[]> {
-  if (columns.length === 0) return [];
+  const out: ColumnSample[] = [];
+  // in batches: one query per SAMPLE_BATCH columns keeps memory bounded on very wide inputs
+  for (let start = 0; start < columns.length; start += SAMPLE_BATCH) {
+    out.push(...(await sampleBatch(engine, view, columns.slice(start, start + SAMPLE_BATCH))));
+  }
+  return out;
+}
+
+const SAMPLE_BATCH = 200;
+
+async function sampleBatch(engine: Engine, view: string, columns: readonly string[]): Promise<ColumnSample[]> {
   const parts = columns.map((c, i) => {
     const q = quoteIdent(c);
     return `count(${q}) AS n${i}, count(*) FILTER (WHERE regexp_full_match(${q}, '${NUMBER_RE}')) AS k${i}, count(DISTINCT ${q}) AS d${i}`;

@@ -47,7 +47,7 @@ const BUFFER_BYTES = 32 * 2 ** 20;
  * 2 threads: 250 columns 0.9 GB, 1,000 columns 4.9 GB, 2,000 columns 10 GB at one thread;
  * 10,000 columns exceed 23 GB, beyond DuckDB's memory limit).
  */
-export const MAX_MEASURED_COLUMNS = 1000;
+export const MAX_MEASURED_COLUMNS = 100_000;
 
 const GLOB_CHARS = /[*?[]/;
 

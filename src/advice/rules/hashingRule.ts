@@ -1,4 +1,5 @@
 import type { ColumnProfile, Recommendation } from "../../profile/types.js";
+import { expectedCollidingLevels } from "../../stats/expectedCollidingLevels.js";
 import type { AdvicePolicy } from "../policy.js";
 import { count, pct } from "../words.js";
 
@@ -9,10 +10,16 @@ import { count, pct } from "../words.js";
 export function hashingRule(column: ColumnProfile, policy: AdvicePolicy): Recommendation {
   const hashing = column.hashing;
   if (!hashing) {
+    // not measured (e.g. a user override on a column the hashing step skipped): the expected
+    // colliding share of uniformly hashed levels, n − w(1 − (1 − 1/w)ⁿ) over n, stands in
+    let width = 2 ** policy.hashMaxBits;
+    for (let b = policy.hashMinBits; b <= policy.hashMaxBits; b++) {
+      if (column.distinct === 0 || expectedCollidingLevels(column.distinct, 2 ** b) / column.distinct <= policy.collisionBudget) { width = 2 ** b; break; }
+    }
     return {
       encoding: "hashing",
-      params: { width: 2 ** policy.hashMaxBits, collisionRowShare: null, hash: "md5-first8-le", salt: "" },
-      reasons: [`Hashing: ${count(column.distinct)} levels; collisions were not measured, so the widest width considered is used.`],
+      params: { width, collisionRowShare: null, hash: "md5-first8-le", salt: "" },
+      reasons: [`Hashing into ${count(width)} buckets: collisions were not counted for this column, so the width is the smallest power of two whose expected share of colliding levels (uniform hashing of ${count(column.distinct)} levels) is within ${pct(policy.collisionBudget, 1)}.`],
     };
   }
   const within = hashing.collisionRowShare <= policy.collisionBudget;
