@@ -8,32 +8,16 @@ import { execFileSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
-import { CommanderError } from "commander";
-import { buildProgram, runCli } from "../../src/cli.js";
-import { addDriftCommand } from "../../src/commands/driftCli.js";
+import { runCli } from "../../src/cli.js";
 import { scan, type ScanOptions } from "../../src/commands/scan.js";
 import { LEVEL_FILE_NAME } from "../../src/engine/levelFile.js";
-import { isTailsiftError } from "../../src/errors.js";
 import { collector } from "../helpers/tmp.js";
 
 export interface CliResult { code: number; out: string; err: string }
 
 export async function cli(argv: string[]): Promise<CliResult> {
   const c = collector();
-  const program = buildProgram(c.io);
-  if (argv[0] !== "drift" || program.commands.some((cmd) => cmd.name() === "drift")) {
-    const code = await runCli(argv, c.io);
-    return { code, out: c.out, err: c.err };
-  }
-  addDriftCommand(program, c.io);
-  let code = 0;
-  try {
-    await program.parseAsync(argv, { from: "user" });
-  } catch (err) {
-    if (isTailsiftError(err)) { c.io.stderr(`tailsift: ${err.message}\n`); code = err.exitCode; }
-    else if (err instanceof CommanderError) code = err.exitCode === 0 ? 0 : 2;
-    else throw err;
-  }
+  const code = await runCli(argv, c.io);
   return { code, out: c.out, err: c.err };
 }
 

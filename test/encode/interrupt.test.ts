@@ -2,10 +2,9 @@
  * Ctrl-C during a long encode: the running DuckDB query is interrupted, the process exits 130,
  * and neither the output, its mappings folder nor any temporary file is left behind. The signal
  * is sent while the output's temporary file is being written (the worst moment).
- * Runs the BUILT code (npx tsc -p tsconfig.json first): `node dist/cli.js encode` once cli.ts
- * registers the command, until then test/encode/encodeMain.mjs (same signal handling).
+ * Runs the BUILT code (npm test builds first): `node dist/cli.js encode`.
  */
-import { execFileSync, spawn, spawnSync } from "node:child_process";
+import { execFileSync, spawn } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
@@ -18,9 +17,7 @@ afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 /** The command line of the built CLI's encode command. */
 function encodeCommand(): string[] {
   if (!fs.existsSync("dist/commands/encodeCli.js")) throw new Error("build first: npx tsc -p tsconfig.json");
-  const help = spawnSync("node", ["dist/cli.js", "--help"], { encoding: "utf8" }).stdout;
-  const wired = /^\s+encode\b/m.test(help);
-  return wired ? ["dist/cli.js", "encode"] : ["test/encode/encodeMain.mjs", "encode"];
+  return ["dist/cli.js", "encode"];
 }
 
 describe("interrupting an encode", () => {

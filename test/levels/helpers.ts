@@ -5,14 +5,11 @@
  */
 import { execFileSync } from "node:child_process";
 import path from "node:path";
-import { CommanderError } from "commander";
 import { expect } from "vitest";
-import { buildProgram, runCli } from "../../src/cli.js";
-import { addSqlCommand } from "../../src/commands/sqlCli.js";
+import { runCli } from "../../src/cli.js";
 import type { Engine } from "../../src/engine/db.js";
 import { openSource } from "../../src/engine/source.js";
 import { quoteIdent, quoteLiteral } from "../../src/engine/sql.js";
-import { isTailsiftError } from "../../src/errors.js";
 import { collector } from "../helpers/tmp.js";
 
 export interface CliResult { code: number; out: string; err: string }
@@ -20,20 +17,7 @@ export interface CliResult { code: number; out: string; err: string }
 /** Runs the CLI in-process; `sql` goes through addSqlCommand when cli.ts does not register it yet. */
 export async function cli(argv: string[]): Promise<CliResult> {
   const c = collector();
-  const program = buildProgram(c.io);
-  if (argv[0] !== "sql" || program.commands.some((cmd) => cmd.name() === "sql")) {
-    const code = await runCli(argv, c.io);
-    return { code, out: c.out, err: c.err };
-  }
-  addSqlCommand(program, c.io);
-  let code = 0;
-  try {
-    await program.parseAsync(argv, { from: "user" });
-  } catch (err) {
-    if (isTailsiftError(err)) { c.io.stderr(`tailsift: ${err.message}\n`); code = err.exitCode; }
-    else if (err instanceof CommanderError) code = err.exitCode === 0 ? 0 : 2;
-    else throw err;
-  }
+  const code = await runCli(argv, c.io);
   return { code, out: c.out, err: c.err };
 }
 
