@@ -11,8 +11,11 @@ function keyParams(c: ColumnProfile): string {
   switch (c.recommendation.encoding) {
     case "one-hot": return `${(p.levels as unknown[] | undefined)?.length ?? 0} cols`;
     case "pooled-one-hot": return `${(p.keep as unknown[] | undefined)?.length ?? 0}+other, pooled ${formatShare(p.pooledRowShare as number)}`;
-    case "target-kfold": return `m=${formatNumber(p.weight as number, 1)}, K=${String(p.folds)}`;
-    case "hashing": return `w=${formatCount(p.width as number)}, coll ${formatShare(p.collisionRowShare as number, 2)}`;
+    case "target-kfold": {
+      const how = p.grouping === "backoff" ? `backoff ${formatCount(p.groups as number)} groups, ` : p.prior === "hierarchical" ? "hierarchical, " : "";
+      return `${how}m=${p.weight === null ? "∞" : formatNumber(p.weight as number, 1)}, K=${String(p.folds ?? "")}`;
+    }
+    case "hashing": return `${p.grouping === "backoff" ? "backoff groups, " : ""}w=${formatCount(p.width as number)}, coll ${formatShare(p.collisionRowShare as number, 2)}`;
     case "frequency": return `${formatCount(p.tableSize as number)} levels`;
     default: return "";
   }
