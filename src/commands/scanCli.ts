@@ -10,7 +10,6 @@ import { TailsiftError } from "../errors.js";
 import { validateProfile } from "../profile/schema.js";
 import type { Encoding, Profile } from "../profile/types.js";
 import { redactProfile } from "../profile/redact.js";
-import { renderHtmlReport } from "../render/html.js";
 import { renderDecisionRecord } from "../render/markdown.js";
 import { renderTable } from "../render/table.js";
 import { ensureOutputDir, pendingTemps, refuseInputAsOutput, tempPathFor, writeFileAtomic } from "./output.js";
@@ -73,10 +72,16 @@ async function scanAndWrite(inputs: string[], o: ScanCliOptions, io: IO, onEngin
   if (o.out && !o.quiet) io.stderr(`wrote ${["profile.json", "decisions.md", "report.html", ...(o.redact ? [] : [LEVEL_FILE_NAME])].map((f) => path.join(o.out!, f)).join(", ")}\n`);
 }
 
+/** The HTML renderer loads vega and vega-lite (~0.4 s); load it only when a report is written. */
+async function htmlReport(profile: Profile): Promise<string> {
+  const { renderHtmlReport } = await import("../render/html.js");
+  return renderHtmlReport(profile);
+}
+
 /** Writes profile.json, decisions.md and report.html, each atomically. */
 export async function writeReportFolder(profile: Profile, dir: string): Promise<void> {
   validateProfile(profile);
-  const html = await renderHtmlReport(profile);
+  const html = await htmlReport(profile);
   writeFileAtomic(path.join(dir, "profile.json"), `${JSON.stringify(profile, null, 2)}\n`);
   writeFileAtomic(path.join(dir, "decisions.md"), renderDecisionRecord(profile));
   writeFileAtomic(path.join(dir, "report.html"), html);
@@ -103,6 +108,6 @@ export async function runReport(profilePath: string, out: string, io: IO): Promi
   const profile = readProfile(profilePath);
   refuseInputAsOutput(out, [profilePath]);
   ensureOutputDir(path.dirname(path.resolve(out)));
-  writeFileAtomic(out, await renderHtmlReport(profile));
+  writeFileAtomic(out, await htmlReport(profile));
   io.stderr(`wrote ${out}\n`);
 }
