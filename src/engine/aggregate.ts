@@ -47,7 +47,7 @@ export function foldSql(identityColumns: readonly string[], seed: number, folds:
   return `(hash(${sqlNumber(Math.trunc(seed))}::BIGINT, ${cols}) % ${sqlNumber(folds)})::INTEGER`;
 }
 
-/** The level-table query (also printed by `tailsift sql` for DuckDB). */
+/** The level-table query. For a binary target y ∈ {0, 1}, so Σy² = Σy and is not summed twice. */
 export function levelPassSql(plan: PassPlan): string {
   const target = plan.target ? targetSql(plan.target) : { y: "NULL::DOUBLE", bad: "false" };
   const inner = [
@@ -66,7 +66,7 @@ export function levelPassSql(plan: PassPlan): string {
     : plan.levelColumns.length === 1 ? "__v0" : `COALESCE(${plan.levelColumns.map((_, i) => `__v${i}`).join(", ")})`;
   const counts = plan.countColumns.map((_, i) => `, count(__n${i})::BIGINT AS __nn${i}`).join("");
   return `SELECT (${which})::INTEGER AS col, ${level} AS level, __fold AS fold, count(*)::BIGINT AS rows,
-  count(__y)::BIGINT AS n_y, coalesce(sum(__y), 0)::DOUBLE AS sum_y, coalesce(sum(__y * __y), 0)::DOUBLE AS sum_y2,
+  count(__y)::BIGINT AS n_y, coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${plan.target?.kind === "binary" ? "coalesce(sum(__y), 0)::DOUBLE" : "coalesce(sum(__y * __y), 0)::DOUBLE"} AS sum_y2,
   count(*) FILTER (WHERE __bad)::BIGINT AS bad${counts}
 FROM (SELECT ${inner.join(", ")} FROM ${plan.view})
 GROUP BY GROUPING SETS (${sets.join(", ")})`;

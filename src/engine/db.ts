@@ -149,8 +149,11 @@ function plainRow(row: Record<string, unknown>): Record<string, unknown> {
  * @throws TailsiftError `bad_option` for a bad memory limit, thread count or temp folder.
  */
 export async function openEngine(options: EngineOptions = {}): Promise<Engine> {
-  const threads = checkThreads(options.threads ?? Math.max(1, os.availableParallelism()));
   const memoryLimit = options.memoryLimit === undefined ? defaultMemoryLimit() : parseMemoryLimit(options.memoryLimit);
+  // below about 512 MB several threads each hold a hash table and the pass runs out of memory
+  // instead of spilling; one thread spills (DESIGN engine notes; measured in bench/)
+  const small = Number(/^(\d+)MiB$/.exec(memoryLimit)?.[1] ?? Infinity) < 512;
+  const threads = checkThreads(options.threads ?? (small ? 1 : Math.max(1, os.availableParallelism())));
   if (options.tempDir !== undefined) checkTempDir(options.tempDir);
   const tempDir = options.tempDir ?? path.join(os.tmpdir(), `tailsift-spill-${process.pid}`);
   let instance: DuckDBInstance;
