@@ -15,14 +15,14 @@ import { buildLevelTable, FOLD_HASH_NAME, type PassTotals } from "../engine/aggr
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { collisionTable, HASH_NAME } from "../engine/hashing.js";
 import { looksNumeric, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
-import { leakageSums } from "../engine/leakage.js";
+import { leakageSums, type LeakageSums } from "../engine/leakage.js";
 import {
   binaryIntervalGroups, buildLevelTotals, findVariants, funnelLevels, streamContinuousLevels,
   summariseLevels, targetColumnSums, type IntervalGroup, type LevelRow,
 } from "../engine/levels.js";
 import { checkMeasuredWidth, countSkippedRows, describeFiles, openSource, type Source, type SourceOptions } from "../engine/source.js";
 import { resolveTarget, type TargetSpec } from "../engine/target.js";
-import { TailsiftError } from "../errors.js";
+import { isTailsiftError, TailsiftError } from "../errors.js";
 import { columnFigures, isIdentifierLike, unmeasuredColumn } from "../profile/columnFigures.js";
 import { countFlags, describeLevel, fitPrior, leakageMetric, targetFigures } from "../profile/targetFigures.js";
 import type { ColumnProfile, Encoding, Profile, ProfileTarget, TargetKind } from "../profile/types.js";
@@ -169,7 +169,13 @@ export async function adviseFromLevelTable(engine: Engine, ctx: LevelTableContex
   }
   for (const [col, h] of hierarchy) columns[col]!.hierarchy = h;
   if (target) {
-    const evidence = await evidenceFor(engine, columns, target, policy, hierarchy);
+    const skipped = new Set<number>();
+    const evidence = await evidenceFor(engine, columns, target, policy, hierarchy, skipped);
+    for (const col of skipped) {
+      const column = columns[col]!;
+      column.recommendation = { ...column.recommendation, reasons: [...column.recommendation.reasons,
+        "Out-of-fold evidence for this column was not computed: it ran out of memory under --memory-limit; the rules' advice stands."] };
+    }
     for (const [col, e] of evidence) {
       const column = columns[col]!;
       column.evidence = e;
@@ -258,7 +264,7 @@ async function addTargetFigures(
   else await streamContinuousLevels(engine, addFlags);
 
   const weights = new Map(priors.map((p, col) => [col, p.weight ?? 0]));
-  const leak = await leakageSums(engine, weights, kind);
+  const leak = await leakageWithinMemory(engine, weights, kind);
   const sst = target.rows * (target.sd ?? 0) ** 2;
   const funnel = await funnelLevels(engine, columns.length, FUNNEL_POINTS);
   columns.forEach((column, col) => {
@@ -273,6 +279,28 @@ async function addTargetFigures(
       return row ? describeLevel(kind, level, row, prior, target.mean) : level;
     });
   });
+}
+
+/**
+ * All columns' leakage sums in one query; if that runs out of memory (a tight --memory-limit and
+ * columns with millions of levels), column by column, leaving a column's leakage null (and its
+ * reasons saying so) when even that does not fit.
+ */
+async function leakageWithinMemory(engine: Engine, weights: Map<number, number>, kind: TargetKind): Promise<LeakageSums[]> {
+  try {
+    return await leakageSums(engine, weights, kind);
+  } catch (err) {
+    if (!(isTailsiftError(err) && err.code === "out_of_memory")) throw err;
+  }
+  const out: LeakageSums[] = [];
+  for (const [col, m] of weights) {
+    try {
+      out.push(...(await leakageSums(engine, new Map([[col, m]]), kind)));
+    } catch (err) {
+      if (!(isTailsiftError(err) && err.code === "out_of_memory")) throw err;
+    }
+  }
+  return out;
 }
 
 async function addHashing(engine: Engine, columns: ColumnProfile[], policy: AdvicePolicy): Promise<void> {

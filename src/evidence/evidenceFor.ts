@@ -6,6 +6,7 @@
  */
 import type { AdvicePolicy } from "../advice/policy.js";
 import type { Engine } from "../engine/db.js";
+import { isTailsiftError } from "../errors.js";
 import type { HierarchyFigures } from "../hierarchy/types.js";
 import type { ColumnProfile, Encoding, ProfileTarget } from "../profile/types.js";
 import { flatCandidate, overallMeanCandidate, pooledCandidate } from "./candidates.js";
@@ -30,7 +31,7 @@ export function evidenceApplies(column: ColumnProfile, hierarchy: HierarchyFigur
  */
 export async function evidenceFor(
   engine: Engine, columns: readonly ColumnProfile[], target: ProfileTarget, policy: AdvicePolicy,
-  hierarchy: ReadonlyMap<number, HierarchyFigures>,
+  hierarchy: ReadonlyMap<number, HierarchyFigures>, skipped?: Set<number>,
 ): Promise<Map<number, Evidence>> {
   const out = new Map<number, Evidence>();
   const kind = target.kind;
@@ -38,14 +39,20 @@ export async function evidenceFor(
   for (const [col, column] of columns.entries()) {
     const h = hierarchy.get(col);
     if (!evidenceApplies(column, h)) continue;
-    const built: (EvidenceCandidate | null)[] = [
-      await overallMeanCandidate(engine, col, kind),
-      await pooledCandidate(engine, col, column, kind, policy),
-      await flatCandidate(engine, col, column, kind, policy),
-    ];
-    if (h && !h.counterLike) {
-      built.push(await backoffCandidate(engine, col, column, h, kind, policy));
-      built.push(await hierarchicalCandidate(engine, col, column, h, kind, policy));
+    const built: (EvidenceCandidate | null)[] = [];
+    try {
+      built.push(await overallMeanCandidate(engine, col, kind));
+      built.push(await pooledCandidate(engine, col, column, kind, policy));
+      built.push(await flatCandidate(engine, col, column, kind, policy));
+      if (h && !h.counterLike) {
+        built.push(await backoffCandidate(engine, col, column, h, kind, policy));
+        built.push(await hierarchicalCandidate(engine, col, column, h, kind, policy));
+      }
+    } catch (err) {
+      // a tight --memory-limit: this column's evidence is skipped (the caller says so), the scan goes on
+      if (!(isTailsiftError(err) && err.code === "out_of_memory")) throw err;
+      skipped?.add(col);
+      continue;
     }
     const candidates = built.filter((c): c is EvidenceCandidate => c !== null);
     const choice = chooseByOneSeRule({ candidates, metric });
