@@ -16,6 +16,7 @@
  *    mapping covers every plan and input level, so only missing rows take the fallback.
  */
 import { bucketSql } from "../engine/hashing.js";
+import { mEstimateSql } from "../engine/formulaSql.js";
 import { quoteIdent, quoteLiteral } from "../engine/sql.js";
 import type { LookupRef } from "./lookup.js";
 import { foldPriorVar, priorVar, sqlDouble } from "./targetMaps.js";
@@ -56,7 +57,7 @@ function targetSql(column: EncodedColumn, m: number | null, ctx: ExprContext): s
   const y = ref(Y_FIELD);
   const mm = sqlDouble(m);
   return `(CASE WHEN ${n} IS NULL THEN ${p}
-    WHEN ${y} IS NULL THEN (CASE WHEN ${n} + ${mm} <= 0 THEN ${p} ELSE (${s} + ${mm} * ${p}) / (${n} + ${mm}) END)
+    WHEN ${y} IS NULL THEN ${mEstimateSql(s, n, mm, p)}
     WHEN ${n} - 1 + ${mm} <= 0 THEN ${p}
     ELSE (${s} - ${y} + ${mm} * ${p}) / (${n} - 1 + ${mm}) END)`;
 }

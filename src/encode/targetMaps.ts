@@ -11,6 +11,7 @@
  * Formulas as in stats/mEstimate.ts and engine/leakage.ts (the scan's out-of-fold score).
  */
 import type { Engine } from "../engine/db.js";
+import { mEstimateSql } from "../engine/formulaSql.js";
 import { quoteLiteral, sqlNumber } from "../engine/sql.js";
 
 export const mapTable = (i: number): string => `tailsift_enc_map_${i}`;
@@ -23,8 +24,7 @@ export const foldPriorVar = (i: number): string => `tailsift_enc_fold_prior_${i}
 /** A double as exact SQL (the text round-trips; DuckDB parses it as DOUBLE, not DECIMAL). */
 export const sqlDouble = (x: number): string => `CAST(${quoteLiteral(sqlNumber(x))} AS DOUBLE)`;
 
-const smoothed = (sum: string, n: string, m: string, prior: string) =>
-  `CASE WHEN ${n} + ${m} <= 0 THEN ${prior} ELSE (${sum} + ${m} * ${prior}) / (${n} + ${m}) END`;
+
 
 /**
  * Sets p (`priorVar(i)`) to `prior` (SQL) and creates `fullTable(i)`(level, rows, n_y, sum_y,
@@ -36,7 +36,7 @@ export async function fullTargetMap(engine: Engine, i: number, from: string, nam
   await engine.run(
     `CREATE OR REPLACE TEMP TABLE ${fullTable(i)} AS
      SELECT level, sum(rows)::BIGINT AS rows, sum(n_y)::BIGINT AS n_y, sum(sum_y)::DOUBLE AS sum_y,
-            ${smoothed("sum(sum_y)", "sum(n_y)", sqlDouble(m), p)} AS value
+            ${mEstimateSql("sum(sum_y)", "sum(n_y)", sqlDouble(m), p)} AS value
      FROM ${from} WHERE name = ${quoteLiteral(name)} AND level IS NOT NULL GROUP BY level`,
     `building the target mapping of '${name}'`);
 }
@@ -79,6 +79,6 @@ export async function outOfFoldMap(engine: Engine, i: number, from: string, name
           t AS (SELECT level, sum(n) AS tn, sum(s) AS ts FROM l GROUP BY level),
           o AS (SELECT t.level, p.fold, t.tn - coalesce(l.n, 0) AS n_other, t.ts - coalesce(l.s, 0) AS sum_other, p.prior AS prior_other
                 FROM t CROSS JOIN ${foldPriorTable(i)} p LEFT JOIN l ON l.level = t.level AND l.fold = p.fold)
-     SELECT level, fold, n_other, sum_other, prior_other, ${smoothed("sum_other", "n_other", sqlDouble(m), "prior_other")} AS value FROM o`,
+     SELECT level, fold, n_other, sum_other, prior_other, ${mEstimateSql("sum_other", "n_other", sqlDouble(m), "prior_other")} AS value FROM o`,
     `building the out-of-fold mapping of '${name}'`);
 }

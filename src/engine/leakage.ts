@@ -13,6 +13,7 @@ import type { TargetKind } from "../profile/types.js";
 import type { Engine } from "./db.js";
 import { LEVEL_TABLE } from "./aggregate.js";
 import { LEVEL_TOTALS } from "./levels.js";
+import { mannWhitneyUSql, mEstimateSql } from "./formulaSql.js";
 import { sqlNumber } from "./sql.js";
 
 export interface LeakageSums {
@@ -42,9 +43,9 @@ function scoredSql(weights: ReadonlyMap<number, number>): string {
   scored AS (
     SELECT lv.col, lv.n_y, lv.sum_y, lv.sum_y2,
       CASE WHEN lv.level IS NULL THEN g.ts / g.tn
-           ELSE (lv.ts_level + lv.m * g.ts / g.tn) / (lv.tn_level + lv.m) END AS s_in,
-      CASE WHEN lv.level IS NULL OR lv.tn_level - lv.n_y <= 0 THEN (g.ts - ft.fs) / (g.tn - ft.fn)
-           ELSE (lv.ts_level - lv.sum_y + lv.m * (g.ts - ft.fs) / (g.tn - ft.fn)) / (lv.tn_level - lv.n_y + lv.m) END AS s_oof
+           ELSE ${mEstimateSql("lv.ts_level", "lv.tn_level", "lv.m", "g.ts / g.tn")} END AS s_in,
+      CASE WHEN lv.level IS NULL THEN (g.ts - ft.fs) / (g.tn - ft.fn)
+           ELSE ${mEstimateSql("(lv.ts_level - lv.sum_y)", "(lv.tn_level - lv.n_y)", "lv.m", "(g.ts - ft.fs) / (g.tn - ft.fn)")} END AS s_oof
     FROM lv JOIN ft USING (fold) CROSS JOIN g)`;
 }
 
@@ -60,17 +61,12 @@ export async function leakageSums(engine: Engine, weights: ReadonlyMap<number, n
        SELECT col, 'oof', 0, 0, 0, sum(sum_y2 - 2 * s_oof * sum_y + n_y * s_oof * s_oof), sum(n_y) FROM scored GROUP BY col
        ORDER BY col, mode`, "scoring the encodings in-sample and out-of-fold");
   }
+  const grouped = `SELECT col, 'in' AS mode, s_in AS score, sum(sum_y) AS pos, sum(n_y - sum_y) AS neg FROM scored GROUP BY col, s_in
+       UNION ALL
+       SELECT col, 'oof', s_oof, sum(sum_y), sum(n_y - sum_y) FROM scored GROUP BY col, s_oof`;
   return engine.rows<LeakageSums>(
     `WITH ${scoredSql(weights)},
-     grp AS (
-       SELECT col, 'in' AS mode, s_in AS score, sum(sum_y) AS pos, sum(n_y - sum_y) AS neg FROM scored GROUP BY col, s_in
-       UNION ALL
-       SELECT col, 'oof', s_oof, sum(sum_y), sum(n_y - sum_y) FROM scored GROUP BY col, s_oof),
-     cum AS (
-       SELECT col, mode, pos, neg,
-         coalesce(sum(neg) OVER (PARTITION BY col, mode ORDER BY score ROWS BETWEEN UNBOUNDED PRECEDING AND 1 PRECEDING), 0) AS below
-       FROM grp)
-     SELECT col, mode, sum(pos * (below + neg / 2))::DOUBLE AS u, sum(pos)::DOUBLE AS positives, sum(neg)::DOUBLE AS negatives,
-            0::DOUBLE AS sse, sum(pos + neg)::DOUBLE AS rows
-     FROM cum GROUP BY col, mode ORDER BY col, mode`, "scoring the encodings in-sample and out-of-fold");
+     mw AS (${mannWhitneyUSql(grouped, ["col", "mode"])})
+     SELECT col, mode, u, positives, negatives, 0::DOUBLE AS sse, positives + negatives AS rows FROM mw ORDER BY col, mode`,
+    "scoring the encodings in-sample and out-of-fold");
 }

@@ -19,11 +19,4 @@ export function baseCtes(col: number): string {
          FROM ${LEVEL_TABLE} WHERE col = ${sqlNumber(col)} AND n_y > 0 GROUP BY level, fold)`;
 }
 
-/**
- * An m-estimate in SQL: (sum + m·prior)/(n + m) (as stats/mEstimate), or exactly the prior when m
- * is NULL (infinite weight) or the group has no rows (n ≤ 0: an unseen level takes the prior; in
- * floating point (m·prior)/m can differ from prior in the last bit, which would split ties).
- */
-export function mEstimateSql(sum: string, n: string, m: string, prior: string): string {
-  return `CASE WHEN ${m} IS NULL OR ${n} <= 0 THEN ${prior} ELSE (${sum} + ${m} * ${prior}) / (${n} + ${m}) END`;
-}
+export { mEstimateSql } from "../engine/formulaSql.js";

@@ -7,6 +7,7 @@
  * predictions (ties ½, as engine/leakage does), or R² = 1 − SSE/SST.
  */
 import type { Engine } from "../engine/db.js";
+import { mannWhitneyUSql } from "../engine/formulaSql.js";
 import type { TargetKind } from "../profile/types.js";
 import { foldLoss } from "./foldLoss.js";
 
@@ -30,9 +31,7 @@ export async function scorePredictions(engine: Engine, scoredSql: string, kind: 
       `SELECT sum(s2 - 2 * pred * s + n * pred * pred)::DOUBLE AS sse, (sum(s2) - sum(s) * sum(s) / sum(n))::DOUBLE AS sst FROM ${SCORED}`, `scoring ${what}`);
     return { ...summary, rows, r2: t && t.sst > 0 ? 1 - t.sse / t.sst : null };
   }
-  const [u] = await engine.rows<{ u: number; pos: number; neg: number }>(
-    `WITH grp AS (SELECT pred, sum(s) AS pos, sum(n - s) AS neg FROM ${SCORED} GROUP BY pred),
-          cum AS (SELECT pos, neg, coalesce(sum(neg) OVER (ORDER BY pred ROWS BETWEEN UNBOUNDED PRECEDING AND 1 PRECEDING), 0) AS below FROM grp)
-     SELECT sum(pos * (below + neg / 2))::DOUBLE AS u, sum(pos)::DOUBLE AS pos, sum(neg)::DOUBLE AS neg FROM cum`, `scoring ${what}`);
-  return { ...summary, rows, auc: u && u.pos * u.neg > 0 ? u.u / (u.pos * u.neg) : null };
+  const [u] = await engine.rows<{ u: number; positives: number; negatives: number }>(
+    mannWhitneyUSql(`SELECT pred AS score, sum(s) AS pos, sum(n - s) AS neg FROM ${SCORED} GROUP BY pred`, []), `scoring ${what}`);
+  return { ...summary, rows, auc: u && u.positives * u.negatives > 0 ? u.u / (u.positives * u.negatives) : null };
 }

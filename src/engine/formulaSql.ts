@@ -1,0 +1,28 @@
+/**
+ * engine/formulaSql: the two formulas that must run inside DuckDB because their inputs are sized
+ * by the number of levels. Each mirrors a function in stats/ (the reference, with its source and
+ * tests) and lives here once; leakage, evidence and encode all build their SQL from these.
+ */
+
+/**
+ * The m-estimate (Cestnik 1990; stats/mEstimate): (sum + m·prior)/(n + m), or exactly the prior
+ * when m is NULL (infinite weight) or the group has no rows (n ≤ 0: an unseen level takes the
+ * prior; in floating point (m·prior)/m can differ from prior in the last bit, which would split ties).
+ */
+export function mEstimateSql(sum: string, n: string, m: string, prior: string): string {
+  return `CASE WHEN ${m} IS NULL OR ${n} <= 0 THEN ${prior} ELSE (${sum} + ${m} * ${prior}) / (${n} + ${m}) END`;
+}
+
+/**
+ * The Mann–Whitney U statistic (ties count ½; stats/aucFromGroups): from `grouped`, a query of
+ * (partition columns…, score, pos, neg) with one row per distinct score, sums per partition
+ * pos·(negatives scored lower + neg/2). AUC = u / (positives · negatives), computed by the caller.
+ * Output columns: the partition columns, u, positives, negatives.
+ */
+export function mannWhitneyUSql(grouped: string, partition: readonly string[]): string {
+  const by = partition.join(", ");
+  const over = partition.length > 0 ? `PARTITION BY ${by} ` : "";
+  return `SELECT ${by}${by ? ", " : ""}sum(pos * (below + neg / 2))::DOUBLE AS u, sum(pos)::DOUBLE AS positives, sum(neg)::DOUBLE AS negatives
+FROM (SELECT *, coalesce(sum(neg) OVER (${over}ORDER BY score ROWS BETWEEN UNBOUNDED PRECEDING AND 1 PRECEDING), 0) AS below FROM (${grouped}))
+${by ? `GROUP BY ${by}` : ""}`;
+}
