@@ -6,6 +6,7 @@
 import { createRequire } from "node:module";
 import { DEFAULT_POLICY, hashWidths, type AdvicePolicy } from "../advice/policy.js";
 import { recommend } from "../advice/recommend.js";
+import { studentTQuantile } from "../stats/studentTQuantile.js";
 import { applyEvidence } from "../evidence/applyEvidence.js";
 import { evidenceFor } from "../evidence/evidenceFor.js";
 import { applyHierarchy } from "../hierarchy/applyHierarchy.js";
@@ -17,7 +18,7 @@ import { collisionTable, HASH_NAME } from "../engine/hashing.js";
 import { looksNumeric, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
 import { leakageSums, type LeakageSums } from "../engine/leakage.js";
 import {
-  binaryIntervalGroups, buildLevelTotals, findVariants, funnelLevels, streamContinuousLevels,
+  binaryIntervalGroups, buildLevelTotals, continuousFlagCounts, findVariants, funnelLevels,
   summariseLevels, targetColumnSums, type IntervalGroup, type LevelRow,
 } from "../engine/levels.js";
 import { checkMeasuredWidth, countSkippedRows, describeFiles, openSource, type Source, type SourceOptions } from "../engine/source.js";
@@ -261,7 +262,10 @@ async function addTargetFigures(
     }
   };
   if (kind === "binary") addFlags(groups);
-  else await streamContinuousLevels(engine, addFlags);
+  else {
+    const counts = await continuousFlagCounts(engine, target.mean, (n) => studentTQuantile(0.975, n - 1) / Math.sqrt(n));
+    for (const [col, f] of counts) flagsByCol.set(col, f);
+  }
 
   const weights = new Map(priors.map((p, col) => [col, p.weight ?? 0]));
   const leak = await leakageWithinMemory(engine, weights, kind);

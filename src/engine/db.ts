@@ -33,8 +33,6 @@ export interface Engine {
   run(sql: string, doing: string, params?: Record<string, DuckDBValue>): Promise<void>;
   /** Runs a query and returns rows as plain objects; BIGINT/HUGEINT become numbers. */
   rows<T = Record<string, unknown>>(sql: string, doing: string, params?: Record<string, DuckDBValue>): Promise<T[]>;
-  /** Streams a query chunk by chunk (bounded memory). */
-  stream(sql: string, doing: string, onRows: (rows: Record<string, unknown>[]) => void): Promise<void>;
   /** Query progress 0..100, or -1 when unknown. */
   progress(): { percentage: number; rowsProcessed: number; totalRows: number };
   interrupt(): void;
@@ -206,16 +204,6 @@ export async function openEngine(options: EngineOptions = {}): Promise<Engine> {
         throw wrapEngineError(err, doing);
       } finally {
         if (trace) traceLine(doing, began);
-      }
-    },
-    async stream(sql, doing, onRows) {
-      try {
-        const result = await connection.stream(sql);
-        for await (const batch of result.yieldRowObjectJs()) {
-          onRows(batch.map((r) => plainRow(r as Record<string, unknown>)));
-        }
-      } catch (err) {
-        throw wrapEngineError(err, doing);
       }
     },
     progress() {

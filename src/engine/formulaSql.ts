@@ -26,3 +26,15 @@ export function mannWhitneyUSql(grouped: string, partition: readonly string[]): 
 FROM (SELECT *, coalesce(sum(neg) OVER (${over}ORDER BY score ROWS BETWEEN UNBOUNDED PRECEDING AND 1 PRECEDING), 0) AS below FROM (${grouped}))
 ${by ? `GROUP BY ${by}` : ""}`;
 }
+
+/**
+ * Does a level's t interval (stats/meanInterval: mean ± t·s/√n, s² = (Σy² − (Σy)²/n)/(n − 1),
+ * spread below 1e-12·Σy² taken as 0) exclude `value`? `factor` is t_{0.975, n−1}/√n, supplied per
+ * n by the caller (the t quantile stays in stats/studentTQuantile). n ≥ 2 is the caller's filter.
+ */
+export function meanIntervalExcludesSql(n: string, sum: string, sumSquares: string, factor: string, value: string): string {
+  const mean = `(${sum} / ${n})`;
+  const centred = `(${sumSquares} - ${sum} * ${mean})`;
+  const half = `(${factor} * sqrt(CASE WHEN ${centred} <= 1e-12 * ${sumSquares} THEN 0 ELSE ${centred} / (${n} - 1) END))`;
+  return `(${mean} - ${half} > ${value} OR ${mean} + ${half} < ${value})`;
+}

@@ -6,6 +6,7 @@
 import type { CountOfCounts } from "../stats/types.js";
 import type { Engine } from "./db.js";
 import { LEVEL_TABLE } from "./aggregate.js";
+import { meanIntervalExcludesSql } from "./formulaSql.js";
 import { sqlNumber } from "./sql.js";
 
 export const LEVEL_TOTALS = "tailsift_level_totals";
@@ -118,12 +119,24 @@ export async function binaryIntervalGroups(engine: Engine): Promise<IntervalGrou
     "grouping levels for intervals");
 }
 
-/** Continuous target: every level with n ≥ 2, streamed in chunks (bounded memory). */
-export async function streamContinuousLevels(engine: Engine, onRows: (rows: IntervalGroup[]) => void): Promise<void> {
-  await engine.stream(
-    `SELECT col, n_y::DOUBLE AS n, sum_y AS sumY, sum_y2 AS sumY2, 1::DOUBLE AS levels
-     FROM ${LEVEL_TOTALS} WHERE n_y >= 2 AND level IS NOT NULL`,
-    "reading levels for intervals", (rows) => onRows(rows as unknown as IntervalGroup[]));
+/**
+ * Continuous target: per column, the levels (n ≥ 2) whose t interval excludes `overallMean`, and
+ * the levels tested. Counted in SQL; only the distinct level sizes (≈ √(2N) at most) cross into
+ * JavaScript, to get the t quantile of each from stats/.
+ */
+export async function continuousFlagCounts(
+  engine: Engine, overallMean: number, factorFor: (n: number) => number,
+): Promise<Map<number, { flagged: number; tested: number }>> {
+  const sizes = await engine.rows<{ n: number }>(
+    `SELECT DISTINCT n_y::DOUBLE AS n FROM ${LEVEL_TOTALS} WHERE n_y >= 2 AND level IS NOT NULL ORDER BY n`, "listing level sizes");
+  if (sizes.length === 0) return new Map();
+  const factors = sizes.map((r) => `(${sqlNumber(r.n)}::DOUBLE, ${sqlNumber(factorFor(r.n))}::DOUBLE)`).join(", ");
+  const excludes = meanIntervalExcludesSql("t.n_y::DOUBLE", "t.sum_y", "t.sum_y2", "f.factor", `${sqlNumber(overallMean)}::DOUBLE`);
+  const rows = await engine.rows<{ col: number; flagged: number; tested: number }>(
+    `SELECT t.col, count(*) FILTER (WHERE ${excludes})::DOUBLE AS flagged, count(*)::DOUBLE AS tested
+     FROM ${LEVEL_TOTALS} t JOIN (VALUES ${factors}) f(n, factor) ON t.n_y::DOUBLE = f.n
+     WHERE t.n_y >= 2 AND t.level IS NOT NULL GROUP BY t.col`, "counting levels whose interval excludes the mean");
+  return new Map(rows.map((r) => [r.col, { flagged: r.flagged, tested: r.tested }]));
 }
 
 /** Up to `limit` levels per column for the funnel plot (the largest by target rows). */

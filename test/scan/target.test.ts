@@ -9,6 +9,7 @@ import { foldSql } from "../../src/engine/aggregate.js";
 import { withEngine } from "../../src/engine/db.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
 import type { ColumnProfile, Profile } from "../../src/profile/types.js";
+import { meanInterval } from "../../src/stats/meanInterval.js";
 import { mulberry32, tempDir, writeFile } from "../helpers/tmp.js";
 
 const dir = tempDir("target");
@@ -165,5 +166,38 @@ describe("target problems are exit-2 errors with one line", () => {
     const p = await scan([file], { target: "y", columns: ["grp"] });
     expect(p.target).toMatchObject({ rows: 3, missing: 2, mean: 2 / 3 });
     expect(col(p, "grp").topLevels[0]).toMatchObject({ value: "a", rows: 3, targetMean: 0.5 });
+  });
+});
+
+describe("flagged levels for a continuous target", () => {
+  it("equal a count of levels whose stats/meanInterval excludes the overall mean", async () => {
+    const rand = mulberry32(21);
+    const lines = ["id,grp,amount"];
+    // 60 levels of 1–40 rows; level means spread so that some intervals exclude the overall mean
+    for (let i = 0; i < 1500; i++) {
+      const g = Math.floor(rand() ** 2 * 60);
+      lines.push(`${i},g${g},${(g * 0.8 + 10 * rand()).toFixed(3)}`);
+    }
+    const file = writeFile(dir, "flags-continuous.csv", `${lines.join("\n")}\n`);
+    const p = await scan([file], { target: "amount", columns: ["grp"] });
+    const byLevel = new Map<string, number[]>();
+    for (const line of lines.slice(1)) {
+      const [, g, y] = line.split(",");
+      byLevel.set(g!, [...(byLevel.get(g!) ?? []), Number(y)]);
+    }
+    const all = [...byLevel.values()].flat();
+    const mean = all.reduce((s, v) => s + v, 0) / all.length;
+    let flagged = 0;
+    let tested = 0;
+    for (const ys of byLevel.values()) {
+      const interval = meanInterval(ys.length, ys.reduce((s, v) => s + v, 0), ys.reduce((s, v) => s + v * v, 0));
+      if (!interval) continue;
+      tested++;
+      if (interval.low > mean || interval.high < mean) flagged++;
+    }
+    expect(tested).toBeGreaterThan(40);
+    expect(flagged).toBeGreaterThan(5);
+    expect(col(p, "grp").target?.testedLevels).toBe(tested);
+    expect(col(p, "grp").target?.flaggedLevels).toBe(flagged);
   });
 });
