@@ -7,23 +7,14 @@ import { type Command, Option } from "commander";
 import type { Engine } from "../engine/db.js";
 import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
 import { TailsiftError } from "../errors.js";
-import type { TargetKind } from "../profile/types.js";
 import { integer, list } from "./commonOptions.js";
 import type { CliIO } from "./io.js";
 import type { LevelScanOptions } from "./levels.js";
 import type { ScanCliOptions } from "./scanCli.js";
-import { levelSql } from "./sql.js";
+import { levelSql, type LevelSqlOptions } from "./sql.js";
 
-interface SqlCliOptions {
-  dialect?: "ansi" | "spark";
-  columns?: string[];
-  target?: string;
-  positive?: string;
-  targetKind?: TargetKind;
-  from: string;
-  foldExpr?: string;
-  folds?: number;
-}
+/** The command's options: the query options, with --columns optional until checked. */
+type SqlCliOptions = Omit<LevelSqlOptions, "columns"> & { columns?: string[] };
 
 /** Registers `tailsift sql` on the program. */
 export function addSqlCommand(program: Command, io: CliIO): void {

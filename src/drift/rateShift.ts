@@ -10,7 +10,7 @@ import { meanInterval } from "../stats/meanInterval.js";
 import { normalQuantile } from "../stats/normalQuantile.js";
 import { wilsonInterval } from "../stats/wilsonInterval.js";
 import type { TargetKind } from "../profile/types.js";
-import { cohensD, cohensH } from "./effectSize.js";
+import { cohensD, cohensH } from "../stats/effectSize.js";
 import type { Interval, RateShift } from "./types.js";
 
 /** Target sums of a group: rows with a target, Σy and Σy². */

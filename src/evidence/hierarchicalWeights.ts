@@ -14,7 +14,7 @@ import { parentSql } from "../hierarchy/parent.js";
 import type { ParentSpec } from "../hierarchy/types.js";
 import { fitPrior } from "../profile/targetFigures.js";
 import type { TargetKind } from "../profile/types.js";
-import { nestedPriorWeight } from "./nestedPriorWeight.js";
+import { nestedPriorWeight } from "../stats/nestedPriorWeight.js";
 
 export interface FoldWeights { fold: number; parentWeight: number | null; levelWeight: number | null; method: string }
 

@@ -64,3 +64,8 @@ export { checkHashingInputs } from "./checkHashingInputs.js";
 export { expectedBucketsUsed } from "./expectedBucketsUsed.js";
 export { expectedCollidingLevels } from "./expectedCollidingLevels.js";
 export { birthdayCollisionProbability } from "./birthdayCollisionProbability.js";
+
+// Effect sizes and nested priors (moved here from drift/ and evidence/: statistics live in stats/)
+export { cohensH, cohensD } from "./effectSize.js";
+export { nestedPriorWeight } from "./nestedPriorWeight.js";
+export type { NestedSums } from "./nestedPriorWeight.js";

@@ -1,5 +1,5 @@
 import { describe, it, expect } from "vitest";
-import { cohensD, cohensH } from "../../src/drift/effectSize.js";
+import { cohensD, cohensH } from "../../src/stats/effectSize.js";
 import { psiCheck } from "../../src/drift/psiRule.js";
 import { rateShift } from "../../src/drift/rateShift.js";
 import { columnStatus, worst } from "../../src/drift/status.js";

@@ -6,7 +6,7 @@ import type { ParentSpec } from "../../src/hierarchy/types.js";
 import { parentOf } from "../../src/hierarchy/parent.js";
 import { betaBinomialPriorWeight } from "../../src/stats/betaBinomialPriorWeight.js";
 import { normalNormalPriorWeight } from "../../src/stats/normalNormalPriorWeight.js";
-import { nestedPriorWeight } from "../../src/evidence/nestedPriorWeight.js";
+import { nestedPriorWeight } from "../../src/stats/nestedPriorWeight.js";
 
 export interface Row { level: string | null; y: number; fold: number }
 

@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from "vitest";
 import { foldLoss } from "../../src/evidence/foldLoss.js";
-import { nestedPriorWeight, type NestedSums } from "../../src/evidence/nestedPriorWeight.js";
+import { nestedPriorWeight, type NestedSums } from "../../src/stats/nestedPriorWeight.js";
 import { chooseByOneSeRule } from "../../src/evidence/oneSe.js";
 import type { CandidateName, EvidenceCandidate } from "../../src/evidence/types.js";
 import { normalNormalPriorWeight } from "../../src/stats/normalNormalPriorWeight.js";
