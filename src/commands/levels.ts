@@ -225,6 +225,10 @@ async function scanLevelsWith(engine: Engine, inputs: string[], o: LevelScanOpti
       fingerprint: fingerprintFiles(files), format: [...formats].join("+"), fromLevels: true },
   });
   profile.settings.levelFolds = folds;
+  // the folds came from the user's --fold-expr on the cluster, not from scan's row hash: say so,
+  // and claim no fold columns, so encode --for training refuses rather than assigning other folds
+  profile.settings.foldHash = "the fold expression given to tailsift sql";
+  delete profile.settings.foldColumns;
   if (folds < 2 && target) withoutOutOfFold(profile, levelColumns, policy, target, o);
   return profile;
 }

@@ -42,7 +42,7 @@ export interface Engine {
 /** The default memory limit: a safe share of the machine (60 %, at most 16 GB, at least 256 MB). */
 export function defaultMemoryLimit(): string {
   const mb = Math.max(256, Math.min(16 * 1024, Math.floor((os.totalmem() / 2 ** 20) * 0.6)));
-  return `${mb}MB`;
+  return `${mb}MiB`;
 }
 
 const UNIT_BYTES: Record<string, number> = {

@@ -31,8 +31,11 @@ function expectSameFigures(levels: Profile, direct: Profile): void {
   expect(measured.sort()).toEqual(reference.map((c) => c.name).sort());
   for (const column of reference) expectSame(levels.columns.find((c) => c.name === column.name), column, column.name);
   expectSame(levels.target, direct.target, "target");
-  const { foldColumns: _a, levelFolds: _b, ...settings } = levels.settings;
-  const { foldColumns: _c, ...expected } = direct.settings;
+  const { foldColumns: _a, levelFolds: _b, foldHash, ...settings } = levels.settings;
+  const { foldColumns: _c, foldHash: _d, ...expected } = direct.settings;
+  // folds of a level table come from the user's fold expression: no row-hash fold columns are claimed
+  expect(foldHash).toBe("the fold expression given to tailsift sql");
+  expect(levels.settings.foldColumns).toBeUndefined();
   expectSame(settings, expected, "settings");
   expect(levels.input.rows).toBe(direct.input.rows);
 }
