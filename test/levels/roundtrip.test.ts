@@ -147,3 +147,18 @@ describe("a continuous target", () => {
     expectSameFigures(p, reference);
   });
 });
+
+describe("a plan advised from level tables", () => {
+  it("cannot make training folds: encode --for training refuses it with one line, scoring works", async () => {
+    const out = at("levels-plan");
+    const made = await cli(["scan", "--levels", at("levels.parquet"), "--target", "no_show", "--out", out, "--quiet", "--no-progress",
+      "--decide", "owner_postcode=target-kfold"]);
+    expect(made.code, made.err).toBe(0);
+    const training = await cli(["encode", csv, "--plan", out, "--out", at("train.parquet"), "--for", "training", "--quiet"]);
+    expect(training.code).toBe(2);
+    expect(training.err).toMatch(/no settings\.foldColumns/);
+    expect(fs.existsSync(at("train.parquet"))).toBe(false);
+    const scoring = await cli(["encode", csv, "--plan", out, "--out", at("score.parquet"), "--for", "scoring", "--quiet"]);
+    expect(scoring.code, scoring.err).toBe(0);
+  });
+});
