@@ -17,6 +17,7 @@ import { addEncodeCommand } from "./commands/encodeCli.js";
 import type { Engine } from "./engine/db.js";
 import type { CliIO } from "./commands/io.js";
 import { isTailsiftError } from "./errors.js";
+import { refuseBlankOptions } from "./commands/optionChecks.js";
 
 export type { CliIO };
 
@@ -26,8 +27,8 @@ export function buildProgram(io: CliIO): Command {
     .name("tailsift")
     .description("Measure every categorical column of a large extract in one pass, recommend an encoding with the numbers behind it, apply it leak-free and check newer extracts against the record.")
     .version(toolVersion(), "-V, --version")
-    .showHelpAfterError("(run with --help for usage)")
-    .configureOutput({ writeOut: io.stdout, writeErr: io.stderr })
+    // commander's own errors are printed by runCli as one prefixed line
+    .configureOutput({ writeOut: io.stdout, writeErr: io.stderr, outputError: () => {} })
     .exitOverride();
 
   const scan = program.command("scan")
@@ -41,7 +42,7 @@ export function buildProgram(io: CliIO): Command {
     .option("--as-categorical <names>", "profile these numeric-looking columns as levels", list)
     .option("--folds <k>", "folds for out-of-fold figures", integer("--folds"), 5)
     .option("--seed <n>", "seed of the fold assignment", integer("--seed"), 42)
-    .option("--top <n>", "top levels listed per column", integer("--top"), 20)
+    .option("--top <n>", "top levels listed per column", integer("--top", 1), 20)
     .option("--max-one-hot <n>", "widest one-hot block advised", integer("--max-one-hot"), 16)
     .option("--min-level-rows <n>", "rows a level needs for its own column", integer("--min-level-rows"), 30)
     .option("--coverage <share>", "row share pooled one-hot must cover", fraction("--coverage"), 0.95)
@@ -67,6 +68,7 @@ export function buildProgram(io: CliIO): Command {
     .option("--debug", "print the stack trace of an error")
     .action(async (profilePath: string, opts: { out: string }) => runReport(profilePath, opts.out, io));
 
+  program.hook("preAction", (_root, action) => refuseBlankOptions(action));
   addEncodeCommand(program, io);
   addDriftCommand(program, io);
   addSqlCommand(program, io);
@@ -82,7 +84,10 @@ export async function runCli(argv: readonly string[], io: CliIO): Promise<number
   } catch (err) {
     if (err instanceof CommanderError) {
       if (err.code === "commander.helpDisplayed" || err.code === "commander.version" || err.code === "commander.help") return 0;
-      return err.exitCode === 0 ? 0 : 2;
+      if (err.exitCode === 0) return 0;
+      const reason = err.message.replace(/^error: /, "").split("\n")[0];
+      io.stderr(`tailsift: ${reason} (run with --help for usage)\n`);
+      return 2;
     }
     const debug = argv.includes("--debug");
     if (isTailsiftError(err)) {

@@ -230,6 +230,12 @@ function checkTarget(spec: TargetSpec, totals: { rows: number; targetRows: numbe
       `target '${spec.column}': ${totals.badTargets} values ${what}; ${spec.kind === "continuous" ? "clean them or give --target-kind binary with --positive" : "name the positive class with --positive VALUE"}`);
   }
   if (totals.targetRows === 0) throw new TailsiftError("target_empty", `target '${spec.column}' is missing on every row`);
+  if (!Number.isFinite(totals.sumY) || !Number.isFinite(totals.sumY2)) {
+    throw new TailsiftError("target_not_finite", `target '${spec.column}' has values too large to add up (such as 1e400, or beyond about 1e154 squared); rescale the target or clean those values`);
+  }
+  if (spec.kind === "binary" && spec.positive !== undefined && totals.sumY === 0) {
+    throw new TailsiftError("target_single_value", `no row of target '${spec.column}' is '${spec.positive}' (given by --positive); values are compared exactly, so check the case (e.g. 'Yes' is not 'yes')`);
+  }
   const mean = totals.sumY / totals.targetRows;
   const variance = Math.max(0, totals.sumY2 / totals.targetRows - mean * mean);
   if (spec.kind === "binary" ? totals.sumY === 0 || totals.sumY === totals.targetRows : variance <= 1e-12 * Math.max(1, mean * mean)) {

@@ -51,6 +51,8 @@ const UNIT_BYTES: Record<string, number> = {
 };
 /** The smallest memory limit accepted: below it DuckDB cannot even read a CSV buffer. */
 export const MIN_MEMORY_BYTES = 64e6;
+/** Above this DuckDB answers with its own parser error ("value is too large"). */
+export const MAX_MEMORY_BYTES = 2 ** 50;
 
 /**
  * Checks a --memory-limit text and returns it in DuckDB's form ("2GB", "512MiB"); "N%" is a
@@ -74,6 +76,7 @@ export function parseMemoryLimit(text: string): string {
     bytes = value * per;
   }
   if (bytes < MIN_MEMORY_BYTES) throw bad("is too small (at least 64MB)");
+  if (!(bytes <= MAX_MEMORY_BYTES)) throw bad("is larger than any machine (at most 1PiB)");
   return `${Math.floor(bytes / 2 ** 20)}MiB`;
 }
 
