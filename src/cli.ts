@@ -7,7 +7,8 @@ import { realpathSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { Command, CommanderError, Option } from "commander";
 import { decisions, engineOptions, fraction, integer, list, sourceOptions } from "./commands/commonOptions.js";
-import { removePendingTemps } from "./commands/output.js";
+import { removeCreatedEmptyDirs, removePendingTemps } from "./commands/output.js";
+import { noteSignal, outputsCommitted, signalExitCode, signalReceived } from "./commands/runState.js";
 import { progressEnabled, startProgress } from "./commands/progress.js";
 import { runReport, runScan, type ScanCliOptions } from "./commands/scanCli.js";
 import { toolVersion } from "./commands/scan.js";
@@ -89,6 +90,7 @@ export async function runCli(argv: readonly string[], io: CliIO): Promise<number
       io.stderr(`tailsift: ${reason} (run with --help for usage)\n`);
       return 2;
     }
+    removeCreatedEmptyDirs(); // a failed run leaves no empty --out folder
     const debug = argv.includes("--debug");
     if (isTailsiftError(err)) {
       io.stderr(`tailsift: ${err.message}\n`);
@@ -113,26 +115,28 @@ function isMain(): boolean {
 
 if (isMain()) {
   let engine: Engine | null = null;
-  let signalled: NodeJS.Signals | null = null;
+  // A signal before the outputs are committed aborts the run (nothing new written, exit 130 /
+  // 143); one after it is too late to undo, so the run finishes and says so (commands/runState).
   const onSignal = (signal: NodeJS.Signals) => {
-    if (signalled) process.exit(signal === "SIGINT" ? 130 : 143);
-    signalled = signal;
-    if (engine) engine.interrupt();
-    else { removePendingTemps(); process.exit(signal === "SIGINT" ? 130 : 143); }
+    if (signalReceived()) { removePendingTemps(); removeCreatedEmptyDirs(); process.exit(signalExitCode(signal)); }
+    noteSignal(signal);
+    if (engine && !outputsCommitted()) engine.interrupt();
   };
   process.on("SIGINT", onSignal);
   process.on("SIGTERM", onSignal);
   const io: CliIO = {
     stdout: (t) => process.stdout.write(t),
     stderr: (t) => process.stderr.write(t),
-    onEngine: (e) => { engine = e; },
+    onEngine: (e) => { engine = e; if (e && signalReceived() && !outputsCommitted()) e.interrupt(); },
   };
   runCli(process.argv.slice(2), io).then((code) => {
     removePendingTemps();
-    process.exitCode = signalled ? (signalled === "SIGINT" ? 130 : 143) : code;
+    const signal = signalReceived();
+    if (code !== 0) removeCreatedEmptyDirs();
+    if (signal && code === 0) process.stderr.write(`tailsift: ${signal} came after the run had finished; its outputs are complete\n`);
+    process.exitCode = signal && code !== 0 ? signalExitCode(signal) : code;
   }, (err: unknown) => {
     process.stderr.write(`tailsift: ${String(err)}\n`);
     process.exitCode = 2;
   });
 }
-

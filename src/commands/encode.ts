@@ -15,6 +15,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import { foldSql } from "../engine/aggregate.js";
+import { contentFingerprintOf } from "../engine/contentFingerprint.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { describeFiles, openSource, type SourceOptions } from "../engine/source.js";
 import { TailsiftError } from "../errors.js";
@@ -29,7 +30,7 @@ import { FOLD_FIELD, ref } from "../encode/expressions.js";
 import type { EncodeMode, EncodeSummary } from "../encode/types.js";
 import type { Profile } from "../profile/types.js";
 import { readProfile } from "./scanCli.js";
-import { ensureOutputDir, refuseInputAsOutput } from "./output.js";
+import { ensureOutputDir, refuseInputAsOutput, removeStaleTemps } from "./output.js";
 
 export type { EncodeSummary } from "../encode/types.js";
 
@@ -69,6 +70,7 @@ export async function encode(inputs: readonly string[], options: EncodeOptions):
   refuseInputAsOutput(options.out, [...inputs, profilePath, levelsPath]);
   outputFormat(options.out);
   ensureOutputDir(path.dirname(path.resolve(options.out)));
+  removeStaleTemps(path.dirname(path.resolve(options.out)), path.basename(options.out)); // left by a killed run
   // DuckDB may only touch the inputs, the plan's folder and the output's folder (plus its temp dir)
   const lockToPaths = options.lockToPaths ?? [...inputs, path.dirname(path.resolve(options.out)), path.dirname(path.resolve(profilePath))];
   return withEngine({ ...options, lockToPaths }, async (engine) => {
@@ -110,7 +112,12 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
   if (names.length > 0) {
     await planLevels(engine, levelsPath, names);
     // The scanned extract itself (and read the same way): its level table is the plan's.
-    if (source.fingerprint === profile.input.fingerprint && !o.recount && !o.skipBadRows) {
+    // The cheap fingerprint is the first screen; the content fingerprint (when the plan has one)
+    // decides: changed content is recounted by a pass, and the summary says so.
+    const sameFile = source.fingerprint === profile.input.fingerprint && !o.recount && !o.skipBadRows;
+    const sameContent = sameFile && await sameContentAsPlan(engine, source, profile);
+    if (sameFile && !sameContent) levelSource = "input pass (content differs from the plan's scan)";
+    if (sameContent) {
       await inputLevelsFromPlan(engine, levelsPath, names);
       levelSource = "plan level table";
     } else {
@@ -118,7 +125,7 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
         view: source.view, identity: training ? foldColumnsOf(profile) : names.slice(0, 1),
         folds: training ? folds : 1, seed: training ? profile.settings.seed : 0, ...(needsTarget && target ? { target } : {}),
       }, `reading ${describeFiles(source.files)}`);
-      levelSource = "input pass";
+      if (levelSource === "none") levelSource = "input pass";
     }
   }
 
@@ -139,4 +146,11 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
     plan, maps, lookups, lookup, levelSource, source, profile, options: o, foldExpr,
     looTarget: o.leaveOneOut && target ? target : undefined,
   });
+}
+
+/** True when the input's content fingerprint is the plan's (or the plan predates content fingerprints). */
+async function sameContentAsPlan(engine: Engine, source: { view: string; columns: string[]; files: string[] }, profile: Profile): Promise<boolean> {
+  const recorded = profile.input.contentFingerprint;
+  if (recorded === undefined) return true;
+  return (await contentFingerprintOf(engine, source.view, source.columns, `checking the content of ${describeFiles(source.files)}`)) === recorded;
 }

@@ -104,7 +104,7 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
 
     const totals = await buildLevelTable(engine, {
       view: source.view, identityColumns: source.columns, levelColumns, countColumns: numeric,
-      target: targetSpec, folds: policy.folds, seed: policy.seed,
+      target: targetSpec, folds: policy.folds, seed: policy.seed, contentColumns: source.columns,
     }, `scanning ${source.files.length === 1 ? `'${source.files[0]}'` : `${source.files.length} files`}`);
     if (totals.rows === 0) throw new TailsiftError("empty_input", `${describeFiles(source.files)} has a header but no rows; give a file with rows`);
     const skippedRows = await countSkippedRows(engine, source);
@@ -114,6 +114,7 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
       levelColumns, numeric, allColumns: source.columns, totals, target, policy, top, options,
       input: {
         paths: source.files, rows: totals.rows, bytes: source.bytes, fingerprint: source.fingerprint, format: source.format,
+        ...(totals.content !== undefined ? { contentFingerprint: totals.content } : {}),
         ...(skippedRows !== undefined ? { skippedRows } : {}),
       },
     });

@@ -8,6 +8,7 @@ import path from "node:path";
 import type { Engine } from "../engine/db.js";
 import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
 import { TailsiftError } from "../errors.js";
+import { verifyPlanSet } from "../plan/integrity.js";
 
 export const PLAN_LEVELS = "tailsift_plan_levels";
 const NEEDED = ["column", "level", "rows", "n_y", "sum_y", "sum_y2"];
@@ -28,6 +29,7 @@ export function locatePlan(plan: string): { profilePath: string; levelsPath: str
     throw new TailsiftError("plan_without_levels",
       `plan '${profilePath}' has no ${LEVEL_FILE_NAME} beside it; drift needs the level table that scan --out writes there (rescan with --out)`);
   }
+  verifyPlanSet(profilePath); // the files belong to one scan (plan/integrity); H2's plan/load takes this hook
   return { profilePath, levelsPath };
 }
 

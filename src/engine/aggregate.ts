@@ -6,6 +6,7 @@
  * target sums. Rows with col = -1 are the per-fold totals (all rows), which also carry the count
  * of target values that did not fit the target kind and the non-missing count of numeric columns.
  */
+import { contentHashSql, formatContentFingerprint } from "./contentFingerprint.js";
 import type { Engine } from "./db.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
 import type { TargetSpec } from "./target.js";
@@ -25,6 +26,8 @@ export interface PassPlan {
   target?: TargetSpec;
   folds: number;
   seed: number;
+  /** All columns in file order: also compute the content fingerprint (engine/contentFingerprint). */
+  contentColumns?: readonly string[];
 }
 
 export interface PassTotals {
@@ -35,6 +38,8 @@ export interface PassTotals {
   sumY2: number;
   badTargets: number;
   nonMissing: Map<string, number>;
+  /** The content fingerprint, when the plan asked for it. */
+  content?: string;
 }
 
 /**
@@ -56,6 +61,7 @@ export function levelPassSql(plan: PassPlan): string {
     `${target.bad} AS __bad`,
     ...plan.levelColumns.map((c, i) => `${quoteIdent(c)} AS __v${i}`),
     ...plan.countColumns.map((c, i) => `${quoteIdent(c)} AS __n${i}`),
+    ...(plan.contentColumns ? [`${contentHashSql(plan.contentColumns)} AS __h`] : []),
   ];
   const sets = [...plan.levelColumns.map((_, i) => `(__v${i}, __fold)`), "(__fold)"];
   const which = plan.levelColumns.length === 0
@@ -64,7 +70,8 @@ export function levelPassSql(plan: PassPlan): string {
   const level = plan.levelColumns.length === 0
     ? "NULL::VARCHAR"
     : plan.levelColumns.length === 1 ? "__v0" : `COALESCE(${plan.levelColumns.map((_, i) => `__v${i}`).join(", ")})`;
-  const counts = plan.countColumns.map((_, i) => `, count(__n${i})::BIGINT AS __nn${i}`).join("");
+  const counts = plan.countColumns.map((_, i) => `, count(__n${i})::BIGINT AS __nn${i}`).join("")
+    + (plan.contentColumns ? ", sum(__h)::HUGEINT AS __content" : "");
   return `SELECT (${which})::INTEGER AS col, ${level} AS level, __fold AS fold, count(*)::BIGINT AS rows,
   count(__y)::BIGINT AS n_y, coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${plan.target?.kind === "binary" ? "coalesce(sum(__y), 0)::DOUBLE" : "coalesce(sum(__y * __y), 0)::DOUBLE"} AS sum_y2,
   count(*) FILTER (WHERE __bad)::BIGINT AS bad${counts}
@@ -90,7 +97,8 @@ export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "s
       `INSERT INTO ${LEVEL_TABLE} BY NAME SELECT col + ${sqlNumber(offset)} AS col, level, fold, rows, n_y, sum_y, sum_y2, bad FROM (${sql}) WHERE col >= 0`,
       `${doing} (columns ${offset + 1}–${offset + batch.length})`);
   }
-  const counts = plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("");
+  const counts = plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("")
+    + (plan.contentColumns ? ", sum(__content)::VARCHAR AS content" : "");
   const rows = await engine.rows<Record<string, number>>(
     `SELECT fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, bad::DOUBLE AS bad${counts}
      FROM ${LEVEL_TABLE} WHERE col = -1 GROUP BY ALL ORDER BY fold`, "reading the pass totals");
@@ -105,5 +113,6 @@ export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "s
     totals.badTargets += r.bad ?? 0;
     plan.countColumns.forEach((c, i) => totals.nonMissing.set(c, (totals.nonMissing.get(c) ?? 0) + (r[`nn${i}`] ?? 0)));
   }
+  if (plan.contentColumns) totals.content = formatContentFingerprint(totals.rows, rows.map((r) => (r as unknown as { content: string | null }).content));
   return totals;
 }

@@ -34,6 +34,8 @@ export interface Profile {
     rows: number;
     bytes: number;
     fingerprint: string;
+    /** Row count and order-independent sum of row hashes, from the scan's pass (engine/contentFingerprint). */
+    contentFingerprint?: string;
     format?: string;
     skippedRows?: number;
     redacted?: boolean;
