@@ -30,6 +30,11 @@ export function throwIfSignalled(): void {
   if (received) throw new TailsiftError("interrupted", `interrupted by ${received}; nothing was written`, signalExitCode(received));
 }
 
+/** Engine hook: between queries, a signal (before the commit) stops the run at the next query. */
+export function throwIfAborted(doing: string): void {
+  if (received && !committed) throw new TailsiftError("interrupted", `interrupted by ${received} while ${doing}; nothing was written`, signalExitCode(received));
+}
+
 /** Runs the synchronous commit of a run's outputs, unless a signal came first. */
 export function commitOutputs(commit: () => void): void {
   throwIfSignalled();

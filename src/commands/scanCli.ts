@@ -2,6 +2,7 @@
  * commands/scanCli: what `tailsift scan` and `tailsift report` do around the library calls —
  * choose the output format, write the report folder atomically, print.
  */
+import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import type { Engine } from "../engine/db.js";
@@ -94,13 +95,14 @@ export async function writeReportFolder(profile: Profile, dir: string, options: 
   const reading = shortenForReading(profile);
   const html = await htmlReport(reading);
   await options.pause?.();
+  const planId = randomUUID();
   const files = [
-    { name: "profile.json", content: `${JSON.stringify(shortenForRecord(profile), null, 2)}\n` },
+    { name: "profile.json", content: `${JSON.stringify({ ...shortenForRecord(profile), planId }, null, 2)}\n` },
     { name: "decisions.md", content: renderDecisionRecord(reading) },
     { name: "report.html", content: html },
     ...(options.levelTable ? [{ name: LEVEL_FILE_NAME, from: options.levelTable }] : []),
   ];
-  writeFileSet(dir, files, (staged) => ({ name: PLAN_MANIFEST, content: `${JSON.stringify(buildManifest(staged), null, 2)}\n` }),
+  writeFileSet(dir, files, (staged) => ({ name: PLAN_MANIFEST, content: `${JSON.stringify(buildManifest(staged, planId), null, 2)}\n` }),
     options.levelTable ? [] : [LEVEL_FILE_NAME], (renames) => commitOutputs(renames));
   keepCreatedDirs();
 }

@@ -8,6 +8,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { DuckDBInstance, type DuckDBConnection, type DuckDBValue } from "@duckdb/node-api";
+import { throwIfAborted } from "../commands/runState.js";
 import { TailsiftError, wrapEngineError } from "../errors.js";
 import { quoteLiteral, quoteLiteralList } from "./sql.js";
 
@@ -168,6 +169,7 @@ export async function openEngine(options: EngineOptions = {}): Promise<Engine> {
   }
   const connection = await instance.connect();
   const run = async (sql: string, doing: string, params?: Record<string, DuckDBValue>) => {
+    throwIfAborted(doing); // a signal that came between queries (commands/runState)
     const began = trace ? Date.now() : 0;
     try {
       await connection.run(sql, params);
@@ -199,6 +201,7 @@ export async function openEngine(options: EngineOptions = {}): Promise<Engine> {
     connection,
     run,
     async rows<T>(sql: string, doing: string, params?: Record<string, DuckDBValue>): Promise<T[]> {
+      throwIfAborted(doing);
       const began = trace ? Date.now() : 0;
       try {
         const reader = await connection.runAndReadAll(sql, params);

@@ -1,15 +1,18 @@
 /**
  * plan/integrity: a plan folder (profile.json, decisions.md, report.html, levels.parquet) is one
- * set. `scan --out` writes a manifest beside them, plan-manifest.json, with a plan id and the
- * SHA-256 of every file of the set; it is renamed into place FIRST, before the files, so at every
- * moment of a write (and after a write that died half-way) a reader finds either the old set,
- * the new set, or files whose hashes disagree with the manifest — refused, never used as a mix.
+ * set. `scan --out` gives each written set a plan id, stored in profile.json (`planId`) and in
+ * a manifest beside it, plan-manifest.json, with the SHA-256 of every file of the set. The
+ * manifest is renamed into place FIRST, before the files, so at every moment of a write (and
+ * after a write that died half-way) a reader finds the old set, the new set, or files that
+ * disagree with the manifest — refused, never used as a mix.
  *
- * verifyPlanSet is the one check, called by every plan reader (encode, drift, report). It checks
- * the files a reader uses — profile.json and levels.parquet; decisions.md and report.html are
- * listed too but not enforced, as `tailsift report` legitimately renders report.html again.
- * A folder without a manifest (written before manifests existed, or by the library's scan()
- * with levelTableOut) is read as before: nothing ties its files together.
+ * verifyPlanSet is the one check, called by every plan reader (encode, drift, report):
+ * profile.json must carry the manifest's plan id (its bytes are not compared: editing a
+ * column's parameters by hand is a supported way to change a plan) and levels.parquet must have
+ * the manifest's SHA-256, or be absent when the manifest lists none (a redacted scan).
+ * decisions.md and report.html are listed but not enforced (`tailsift report` renders them
+ * again). A folder without a manifest (written before manifests existed, or by the library's
+ * scan() with levelTableOut) is read as before: nothing ties its files together.
  */
 import { createHash, randomUUID } from "node:crypto";
 import fs from "node:fs";
@@ -19,7 +22,6 @@ import { TailsiftError } from "../errors.js";
 export const PLAN_MANIFEST = "plan-manifest.json";
 export const MANIFEST_FORMAT = "tailsift-plan-set/1";
 const LEVELS = "levels.parquet";
-const CHECKED = ["profile.json", LEVELS];
 
 export interface PlanManifest {
   format: typeof MANIFEST_FORMAT;
@@ -50,6 +52,16 @@ export function buildManifest(files: Record<string, string>, planId: string = ra
 
 const refuse = (reason: string) => new TailsiftError("plan_mixed", reason);
 
+/** The plan id recorded in a profile.json (null when it has none or is not JSON: readProfile says that). */
+function profilePlanId(profilePath: string): string | null {
+  try {
+    const id = (JSON.parse(fs.readFileSync(profilePath, "utf8")) as { planId?: unknown }).planId;
+    return typeof id === "string" ? id : null;
+  } catch {
+    return null;
+  }
+}
+
 /**
  * Checks that the plan files beside `profilePath` belong together.
  * @returns the plan id, or null for a folder without a manifest.
@@ -62,18 +74,19 @@ export function verifyPlanSet(profilePath: string): { planId: string | null } {
   let manifest: PlanManifest;
   try {
     manifest = JSON.parse(fs.readFileSync(manifestPath, "utf8")) as PlanManifest;
-    if (manifest.format !== MANIFEST_FORMAT || typeof manifest.files !== "object" || manifest.files === null) throw new Error("format");
+    if (manifest.format !== MANIFEST_FORMAT || typeof manifest.planId !== "string" || typeof manifest.files !== "object" || manifest.files === null) throw new Error("format");
   } catch {
     throw refuse(`'${manifestPath}' is not a tailsift plan manifest; the plan folder is damaged — rescan with --out`);
   }
   const rescan = "the plan folder mixes files of different scans (a write cut short, or a file copied in) — rescan with --out";
-  for (const name of CHECKED) {
-    const file = path.join(dir, name);
-    const listed = manifest.files[name];
-    const present = fs.existsSync(file);
-    if (listed === undefined && present) throw refuse(`'${file}' does not belong to the plan in '${dir}' (its manifest lists no ${name}); ${rescan}`);
-    if (listed !== undefined && !present) throw refuse(`'${file}' is missing from the plan in '${dir}'; ${rescan}`);
-    if (listed !== undefined && present && sha256File(file) !== listed) throw refuse(`'${file}' does not belong to the plan in '${dir}' (its content differs from the manifest's); ${rescan}`);
+  if (profilePlanId(profilePath) !== manifest.planId) {
+    throw refuse(`'${profilePath}' does not belong to the plan in '${dir}' (its planId is not the manifest's); ${rescan}`);
   }
+  const file = path.join(dir, LEVELS);
+  const listed = manifest.files[LEVELS];
+  const present = fs.existsSync(file);
+  if (listed === undefined && present) throw refuse(`'${file}' does not belong to the plan in '${dir}' (its manifest lists no ${LEVELS}); ${rescan}`);
+  if (listed !== undefined && !present) throw refuse(`'${file}' is missing from the plan in '${dir}'; ${rescan}`);
+  if (listed !== undefined && present && sha256File(file) !== listed) throw refuse(`'${file}' does not belong to the plan in '${dir}' (its content differs from the manifest's); ${rescan}`);
   return { planId: manifest.planId };
 }

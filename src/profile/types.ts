@@ -29,6 +29,8 @@ export const ENCODINGS: readonly Encoding[] = [
 export interface Profile {
   tool: { name: "tailsift"; version: string; engine?: string };
   createdAt: string;
+  /** The id of the plan set written by scan --out (plan/integrity); absent in printed profiles. */
+  planId?: string;
   input: {
     paths: string[];
     rows: number;

@@ -96,12 +96,21 @@ describe("a plan folder is written and read as one set (item 2)", () => {
     await refused(encodeTraining(plan, "red2.parquet"), /does not belong to the plan.*lists no levels\.parquet/);
   });
 
-  it("an edited profile.json is refused", async () => {
+  it("a profile.json from another scan is refused; one whose parameters a user edited is read", async () => {
     const plan = path.join(dir, "edited");
+    const other = path.join(dir, "other");
     await ok(scanArgs(plan));
+    await ok(scanArgs(other, "--seed", "5"));
     const file = path.join(plan, "profile.json");
-    fs.writeFileSync(file, fs.readFileSync(file, "utf8").replace('"seed": 42', '"seed": 43'));
-    await refused(encodeTraining(plan, "edited.parquet"), /profile\.json' does not belong to the plan/);
+    const profile = JSON.parse(fs.readFileSync(file, "utf8")) as { planId: string; columns: { name: string; recommendation: { encoding: string; params: Record<string, unknown> } }[] };
+    const manifest = JSON.parse(fs.readFileSync(path.join(plan, "plan-manifest.json"), "utf8")) as { planId: string };
+    expect(profile.planId).toBe(manifest.planId);
+    const clinic = profile.columns.find((c) => c.name === "species")!;
+    clinic.recommendation = { ...clinic.recommendation, encoding: "frequency", params: {} };
+    fs.writeFileSync(file, JSON.stringify(profile));
+    await ok(encodeTraining(plan, "edited.parquet"));
+    fs.copyFileSync(path.join(other, "profile.json"), file);
+    await refused(encodeTraining(plan, "edited2.parquet"), /profile\.json' does not belong to the plan.*planId/);
   });
 });
 
