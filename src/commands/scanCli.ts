@@ -13,9 +13,8 @@ import { redactProfile } from "../profile/redact.js";
 import { renderDecisionRecord } from "../render/markdown.js";
 import { renderTable } from "../render/table.js";
 import { ensureOutputDir, pendingTemps, refuseInputAsOutput, tempPathFor, writeFileAtomic } from "./output.js";
-import { scanLevels } from "./levels.js";
+import { scanLevels, type LevelScanOptions } from "./levels.js";
 import { scan } from "./scan.js";
-import { levelScanOptions } from "./sqlCli.js";
 
 export interface ScanCliOptions {
   target?: string; positive?: string; targetKind?: "binary" | "continuous";
@@ -110,4 +109,20 @@ export async function runReport(profilePath: string, out: string, io: IO): Promi
   ensureOutputDir(path.dirname(path.resolve(out)));
   writeFileAtomic(out, await htmlReport(profile));
   io.stderr(`wrote ${out}\n`);
+}
+
+/**
+ * `scan --levels`: maps the scan command's options onto scanLevels. Options about reading raw
+ * rows (--as-categorical, --skip-bad-rows, --encoding) are refused; --delimiter applies to CSV
+ * level tables; --folds only matters for a one-fold table (the K recorded for target-kfold).
+ */
+export function levelScanOptions(o: ScanCliOptions, onEngine: (e: Engine | null) => void): LevelScanOptions {
+  const refused = [o.asCategorical?.length ? "--as-categorical" : "", o.skipBadRows ? "--skip-bad-rows" : "", o.encoding ? "--encoding" : ""].filter((x) => x);
+  if (refused.length > 0) throw new TailsiftError("bad_option", `${refused.join(", ")} do${refused.length === 1 ? "es" : ""} not apply to --levels: level tables are already counted`);
+  return {
+    target: o.target, positive: o.positive, targetKind: o.targetKind, columns: o.columns, exclude: o.exclude, top: o.top,
+    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget },
+    decide: o.decide, memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir, delimiter: o.delimiter,
+    levelTableOut: o.out && !o.redact ? path.join(o.out, LEVEL_FILE_NAME) : undefined, onEngine,
+  };
 }

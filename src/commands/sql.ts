@@ -10,6 +10,7 @@
  * user's own text and is inserted unchanged.
  */
 import { TailsiftError } from "../errors.js";
+import { checkFoldCount } from "../engine/folds.js";
 import { ANSI_SQL, SPARK_SQL, sqlNumber, type SqlDialect } from "../engine/sql.js";
 import { NEGATIVE_WORDS, POSITIVE_WORDS } from "../engine/target.js";
 import type { TargetKind } from "../profile/types.js";
@@ -62,8 +63,7 @@ function foldExpr(o: LevelSqlOptions): string {
   }
   if (o.foldExpr.trim() === "") throw bad("--fold-expr is empty");
   if (o.folds === undefined) return `CAST((${o.foldExpr}) AS INTEGER)`;
-  if (!Number.isInteger(o.folds) || o.folds < 2 || o.folds > 100) throw bad(`--folds must be an integer from 2 to 100 (got ${o.folds})`);
-  return `CAST(MOD(ABS(${o.foldExpr}), ${sqlNumber(o.folds)}) AS INTEGER)`;
+  return `CAST(MOD(ABS(${o.foldExpr}), ${sqlNumber(checkFoldCount(o.folds))}) AS INTEGER)`;
 }
 
 function yExpr(o: LevelSqlOptions, d: SqlDialect): string {

@@ -2,15 +2,9 @@
  * commands/sqlCli: `tailsift sql` — prints the level-aggregation query for another SQL engine.
  * Reads no data: the query's output, saved as Parquet or CSV, goes to `tailsift scan --levels`.
  */
-import path from "node:path";
 import { type Command, Option } from "commander";
-import type { Engine } from "../engine/db.js";
-import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
-import { TailsiftError } from "../errors.js";
 import { integer, list } from "./commonOptions.js";
 import type { CliIO } from "./io.js";
-import type { LevelScanOptions } from "./levels.js";
-import type { ScanCliOptions } from "./scanCli.js";
 import { levelSql, type LevelSqlOptions } from "./sql.js";
 
 /** The command's options: the query options, with --columns optional until checked. */
@@ -36,20 +30,4 @@ export function addSqlCommand(program: Command, io: CliIO): void {
       });
       io.stdout(`${sql.trimEnd()};\n`);
     });
-}
-
-/**
- * `scan --levels`: maps the scan command's options onto scanLevels. Options about reading raw
- * rows (--as-categorical, --skip-bad-rows, --encoding) are refused; --delimiter applies to CSV
- * level tables; --folds only matters for a one-fold table (the K recorded for target-kfold).
- */
-export function levelScanOptions(o: ScanCliOptions, onEngine: (e: Engine | null) => void): LevelScanOptions {
-  const refused = [o.asCategorical?.length ? "--as-categorical" : "", o.skipBadRows ? "--skip-bad-rows" : "", o.encoding ? "--encoding" : ""].filter((x) => x);
-  if (refused.length > 0) throw new TailsiftError("bad_option", `${refused.join(", ")} do${refused.length === 1 ? "es" : ""} not apply to --levels: level tables are already counted`);
-  return {
-    target: o.target, positive: o.positive, targetKind: o.targetKind, columns: o.columns, exclude: o.exclude, top: o.top,
-    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget },
-    decide: o.decide, memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir, delimiter: o.delimiter,
-    levelTableOut: o.out && !o.redact ? path.join(o.out, LEVEL_FILE_NAME) : undefined, onEngine,
-  };
 }

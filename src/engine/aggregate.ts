@@ -7,24 +7,22 @@
  * of target values that did not fit the target kind and the non-missing count of numeric columns.
  */
 import type { Engine } from "./db.js";
+import { foldSql, type FoldContract } from "./folds.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
 import type { TargetSpec } from "./target.js";
 import { targetSql } from "./target.js";
 
 export const LEVEL_TABLE = "tailsift_levels";
-export const FOLD_HASH_NAME = "duckdb-hash-of-row-text";
 
 export interface PassPlan {
   view: string;
-  /** Every column of the input in file order: the row identity the fold hash reads. */
-  identityColumns: readonly string[];
   /** Columns whose levels are counted. */
   levelColumns: readonly string[];
   /** Columns for which only the non-missing count is kept (numeric columns). */
   countColumns: readonly string[];
   target?: TargetSpec;
-  folds: number;
-  seed: number;
+  /** How each row gets its fold (engine/folds). */
+  fold: FoldContract;
 }
 
 export interface PassTotals {
@@ -37,21 +35,11 @@ export interface PassTotals {
   nonMissing: Map<string, number>;
 }
 
-/**
- * The fold of a row: a seeded hash of the row's full text (every column, in file order) modulo K.
- * Rows that are exact duplicates share a fold, so duplicates cannot leak across folds.
- * The same expression is used by `encode`, so scan and encode assign every row the same fold.
- */
-export function foldSql(identityColumns: readonly string[], seed: number, folds: number): string {
-  const cols = identityColumns.map(quoteIdent).join(", ");
-  return `(hash(${sqlNumber(Math.trunc(seed))}::BIGINT, ${cols}) % ${sqlNumber(folds)})::INTEGER`;
-}
-
 /** The level-table query. For a binary target y ∈ {0, 1}, so Σy² = Σy and is not summed twice. */
 export function levelPassSql(plan: PassPlan): string {
   const target = plan.target ? targetSql(plan.target) : { y: "NULL::DOUBLE", bad: "false" };
   const inner = [
-    `${foldSql(plan.identityColumns, plan.seed, plan.folds)} AS __fold`,
+    `${foldSql(plan.fold)} AS __fold`,
     `${target.y} AS __y`,
     `${target.bad} AS __bad`,
     ...plan.levelColumns.map((c, i) => `${quoteIdent(c)} AS __v${i}`),
@@ -94,7 +82,7 @@ export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "s
   const rows = await engine.rows<Record<string, number>>(
     `SELECT fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, bad::DOUBLE AS bad${counts}
      FROM ${LEVEL_TABLE} WHERE col = -1 GROUP BY ALL ORDER BY fold`, "reading the pass totals");
-  const foldRows = Array.from({ length: plan.folds }, () => 0);
+  const foldRows = Array.from({ length: plan.fold.k }, () => 0);
   const totals: PassTotals = { rows: 0, foldRows, targetRows: 0, sumY: 0, sumY2: 0, badTargets: 0, nonMissing: new Map() };
   for (const r of rows) {
     foldRows[r.fold ?? 0] = r.rows ?? 0;

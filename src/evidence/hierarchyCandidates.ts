@@ -12,7 +12,7 @@ import { BACKOFF_TABLE, buildBackoffMap } from "../hierarchy/backoff.js";
 import type { HierarchyFigures } from "../hierarchy/types.js";
 import { fitPrior } from "../profile/targetFigures.js";
 import type { ColumnProfile, TargetKind } from "../profile/types.js";
-import { toCandidate } from "./candidates.js";
+import { scored } from "./candidates.js";
 import { groupedScoredSql } from "./groupedSql.js";
 import { hierarchicalScoredSql } from "./hierarchicalSql.js";
 import { hierarchicalWeights } from "./hierarchicalWeights.js";
@@ -20,7 +20,7 @@ import { scorePredictions } from "./scoreSql.js";
 import type { EvidenceCandidate } from "./types.js";
 
 const base = (column: ColumnProfile, policy: AdvicePolicy) =>
-  ({ folds: policy.folds, seed: policy.seed, priorMean: column.target?.prior.mean ?? null, fallback: "prior mean" });
+  ({ folds: policy.folds, seed: policy.seed, priorMean: column.target?.prior.mean ?? null, fallback: "prior mean" as const });
 
 /** Backoff grouping (hierarchy/backoff), then target-kfold on the groups; "other" is a group. */
 export async function backoffCandidate(engine: Engine, col: number, column: ColumnProfile, h: HierarchyFigures, kind: TargetKind, policy: AdvicePolicy): Promise<EvidenceCandidate | null> {
@@ -34,10 +34,14 @@ export async function backoffCandidate(engine: Engine, col: number, column: Colu
   const prior = fitPrior(kind, sums && sums.levels > 0 ? { col, ...sums } : undefined, column.target?.prior.mean ?? 0);
   const weight = prior.weight; // null: no detectable spread between groups → each group takes the prior
   const score = await scorePredictions(engine, groupedScoredSql(col, { sql: `SELECT level, gd, gk FROM ${BACKOFF_TABLE}` }, weight), kind, "backoff grouping");
-  return score && toCandidate("backoff-target-kfold", {
-    weight, method: prior.method, ...base(column, policy), grouping: "backoff", parents: [...parents].reverse(),
-    minRows: h.backoff.minRows, groups: h.backoff.groups, coverage: h.backoff.coverage,
-  }, score);
+  return score && {
+    candidate: "backoff-target-kfold",
+    params: {
+      weight, method: prior.method, ...base(column, policy), grouping: "backoff", parents: [...parents].reverse(),
+      minRows: h.backoff.minRows, groups: h.backoff.groups, coverage: h.backoff.coverage,
+    },
+    ...scored(score),
+  };
 }
 
 /** The hierarchical prior toward h.priorParent. Edge case: no prior parent → null. */
@@ -48,8 +52,12 @@ export async function hierarchicalCandidate(engine: Engine, col: number, column:
   const all = weights.find((w) => w.fold === -1);
   const score = await scorePredictions(engine, hierarchicalScoredSql(col, parent, weights), kind, "hierarchical prior");
   const groups = h.parents.find((p) => JSON.stringify(p.parent) === JSON.stringify(parent))?.groups ?? null;
-  return score && toCandidate("hierarchical-target-kfold", {
-    weight: all?.levelWeight ?? null, parentWeight: all?.parentWeight ?? null, method: all?.method ?? null, ...base(column, policy),
-    prior: "hierarchical", parent, parentGroups: groups,
-  }, score);
+  return score && {
+    candidate: "hierarchical-target-kfold",
+    params: {
+      weight: all?.levelWeight ?? null, parentWeight: all?.parentWeight ?? null, method: all?.method ?? null, ...base(column, policy),
+      prior: "hierarchical", parent, parentGroups: groups,
+    },
+    ...scored(score),
+  };
 }

@@ -11,9 +11,10 @@ import { normalNormalPriorWeight } from "../stats/normalNormalPriorWeight.js";
 import { wilsonInterval } from "../stats/wilsonInterval.js";
 import type { IntervalGroup, LevelRow, TargetColumnSums } from "../engine/levels.js";
 import type { LeakageSums } from "../engine/leakage.js";
-import type { ColumnTargetFigures, LevelFigure, TargetKind } from "./types.js";
+import type { ColumnTargetFigures, LevelFigure, PriorWeight, TargetKind } from "./types.js";
 
-export interface FittedPrior { method: string; weight: number | null; mean: number; rho?: number | null; tau2?: number | null }
+/** weight null: no detectable spread, m = ∞ (the prior). */
+export interface FittedPrior { method: string; weight: PriorWeight; mean: number; rho?: number | null; tau2?: number | null }
 
 /** Fits the prior weight m for one column from its level sums. */
 export function fitPrior(kind: TargetKind, sums: TargetColumnSums | undefined, overallMean: number): FittedPrior {
@@ -55,7 +56,8 @@ export function describeLevel(kind: TargetKind, level: LevelFigure, row: LevelRo
     if (interval.low > overallMean) out.flag = "above";
     else if (interval.high < overallMean) out.flag = "below";
   }
-  out.smoothed = mEstimate(row.sum_y, row.n_y, prior.weight ?? 0, prior.mean);
+  // no detectable spread (weight null) is the limit m → ∞: the smoothed value is the prior itself
+  out.smoothed = prior.weight === null ? prior.mean : mEstimate(row.sum_y, row.n_y, prior.weight, prior.mean);
   return out;
 }
 
@@ -84,7 +86,7 @@ export function leakageMetric(kind: TargetKind, sums: LeakageSums | undefined, s
 
 export function targetFigures(
   kind: TargetKind, prior: FittedPrior, flags: { flagged: number; tested: number },
-  inSample: number | null, outOfFold: number | null, weightUsed: number,
+  inSample: number | null, outOfFold: number | null, weightUsed: PriorWeight,
   funnel: ColumnTargetFigures["funnel"],
 ): ColumnTargetFigures {
   return {

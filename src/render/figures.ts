@@ -44,7 +44,7 @@ export function paramValueText(value: unknown): string {
 }
 
 /** Parameters as `name=value` pairs in the order the recommendation lists them. */
-export function paramsText(params: Record<string, unknown>): string {
+export function paramsText(params: object): string {
   const entries = Object.entries(params);
   return entries.length === 0 ? "—" : entries.map(([k, v]) => `${k}=${paramValueText(v)}`).join(", ");
 }

@@ -7,16 +7,17 @@ import type { ColumnProfile, Profile } from "../profile/types.js";
 import { formatCount, formatNumber, formatShare } from "./format.js";
 
 function keyParams(c: ColumnProfile): string {
-  const p = c.recommendation.params;
-  switch (c.recommendation.encoding) {
-    case "one-hot": return `${(p.levels as unknown[] | undefined)?.length ?? 0} cols`;
-    case "pooled-one-hot": return `${(p.keep as unknown[] | undefined)?.length ?? 0}+other, pooled ${formatShare(p.pooledRowShare as number)}`;
+  const rec = c.recommendation;
+  switch (rec.encoding) {
+    case "one-hot": return `${rec.params.levels.length} cols`;
+    case "pooled-one-hot": return `${rec.params.keep.length}+other, pooled ${formatShare(rec.params.pooledRowShare)}`;
     case "target-kfold": {
-      const how = p.grouping === "backoff" ? `backoff ${formatCount(p.groups as number)} groups, ` : p.prior === "hierarchical" ? "hierarchical, " : "";
-      return `${how}m=${p.weight === null ? "∞" : formatNumber(p.weight as number, 1)}, K=${String(p.folds ?? "")}`;
+      const p = rec.params;
+      const how = p.grouping === "backoff" ? `backoff ${formatCount(p.groups)} groups, ` : p.prior === "hierarchical" ? "hierarchical, " : "";
+      return `${how}m=${p.weight === null ? "∞" : formatNumber(p.weight, 1)}, K=${String(p.folds ?? "")}`;
     }
-    case "hashing": return `${p.grouping === "backoff" ? "backoff groups, " : ""}w=${formatCount(p.width as number)}, coll ${formatShare(p.collisionRowShare as number, 2)}`;
-    case "frequency": return `${formatCount(p.tableSize as number)} levels`;
+    case "hashing": return `${rec.params.grouping === "backoff" ? "backoff groups, " : ""}w=${formatCount(rec.params.width)}, coll ${formatShare(rec.params.collisionRowShare, 2)}`;
+    case "frequency": return `${formatCount(rec.params.tableSize)} levels`;
     default: return "";
   }
 }

@@ -10,6 +10,7 @@ import { csvParse } from "d3-dsv";
 import { afterAll, describe, expect, it } from "vitest";
 import { runCli } from "../../src/cli.js";
 import { buildLevelTable } from "../../src/engine/aggregate.js";
+import { rowHashFolds } from "../../src/engine/folds.js";
 import { withEngine } from "../../src/engine/db.js";
 import { countSkippedRows, openSource } from "../../src/engine/source.js";
 import type { Profile } from "../../src/profile/types.js";
@@ -109,7 +110,7 @@ describe("ragged rows", () => {
   it("countSkippedRows counts the skipped rows after the pass (undefined when not skipping)", async () => {
     const skipped = async (file: string, skipBadRows: boolean) => withEngine({ threads: 1 }, async (engine) => {
       const source = await openSource(engine, [file], { skipBadRows });
-      await buildLevelTable(engine, { view: source.view, identityColumns: source.columns, levelColumns: source.columns, countColumns: [], folds: 5, seed: 1 });
+      await buildLevelTable(engine, { view: source.view, levelColumns: source.columns, countColumns: [], fold: rowHashFolds(source.columns, 5, 1) });
       return countSkippedRows(engine, source);
     });
     expect(await skipped(fixture("ragged.csv"), true)).toBe(lines.length - 1 - good.length);

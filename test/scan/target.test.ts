@@ -5,7 +5,7 @@
 import fs from "node:fs";
 import { afterAll, describe, expect, it } from "vitest";
 import { scan } from "../../src/commands/scan.js";
-import { foldSql } from "../../src/engine/aggregate.js";
+import { rowHashFoldSql as foldSql } from "../../src/engine/folds.js";
 import { withEngine } from "../../src/engine/db.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
 import type { ColumnProfile, Profile } from "../../src/profile/types.js";
@@ -98,12 +98,17 @@ function leakageCsv(rows: number, seed: number): string {
 
 describe("the leakage gap", () => {
   const file = writeFile(dir, "leak.csv", leakageCsv(6000, 11));
-  it("shows in-sample AUC well above 0.5 and out-of-fold near 0.5 for a noise column; signal keeps it", async () => {
+  it("scores a noise column at m = ∞ (no detectable spread: the prior, AUC 0.5 in-sample) and keeps the signal", async () => {
     const p = await scan([file], { target: "y", columns: ["noise", "signal"] });
     const noise = col(p, "noise").target!.leakage;
     const signal = col(p, "signal").target!.leakage;
     expect(noise.metric).toBe("auc");
-    expect(noise.inSample!).toBeGreaterThan(0.7);
+    // no detectable spread is the limit m → ∞: every level is encoded as the overall mean, one
+    // value for every row, so the in-sample AUC is exactly ½ (all pairs tied; Mann–Whitney ties ½).
+    // Before, the leakage was scored at m = 0 (raw level means) and showed an in-sample AUC > 0.7.
+    expect(col(p, "noise").target!.prior.weight).toBeNull();
+    expect(noise.weightUsed).toBeNull();
+    expect(noise.inSample!).toBe(0.5);
     expect(Math.abs(noise.outOfFold! - 0.5)).toBeLessThan(0.05);
     expect(signal.outOfFold!).toBeGreaterThan(0.65);
     expect(signal.inSample! - signal.outOfFold!).toBeLessThan(0.02);
@@ -118,13 +123,14 @@ describe("the leakage gap", () => {
     const rows = await withEngine({}, (e) => e.rows<{ id: string; noise: string; signal: string; y: string; amount: string; fold: number }>(
       `SELECT *, ${foldSql(["id", "noise", "signal", "y", "amount"], 42, 5)} AS fold FROM read_csv(${quoteLiteral(small)}, all_varchar = true)`, "test"));
     for (const name of ["noise", "signal"] as const) {
-      const m = col(p, name).target!.leakage.weightUsed!;
+      const m = col(p, name).target!.leakage.weightUsed ?? Infinity; // null = no detectable spread, m = ∞
       const oof = rows.map((r) => {
         const others = rows.filter((o) => o.fold !== r.fold);
         const prior = others.reduce((s, o) => s + Number(o.y), 0) / others.length;
         const same = others.filter((o) => o[name] === r[name]);
         // a level unseen in the other folds (with m = 0) falls back to the other folds' mean
-        return same.length + m === 0 ? prior : (same.reduce((s, o) => s + Number(o.y), 0) + m * prior) / (same.length + m);
+        // m = ∞ is the limit where every level takes the prior
+        return m === Infinity || same.length + m === 0 ? prior : (same.reduce((s, o) => s + Number(o.y), 0) + m * prior) / (same.length + m);
       });
       let wins = 0;
       let pairs = 0;
@@ -133,12 +139,12 @@ describe("the leakage gap", () => {
       }));
       expect(col(p, name).target!.leakage.outOfFold).toBeCloseTo(wins / pairs, 9);
 
-      const mc = col(pc, name).target!.leakage.weightUsed!;
+      const mc = col(pc, name).target!.leakage.weightUsed ?? Infinity;
       const pred = rows.map((r) => {
         const others = rows.filter((o) => o.fold !== r.fold);
         const prior = others.reduce((s, o) => s + Number(o.amount), 0) / others.length;
         const same = others.filter((o) => o[name] === r[name]);
-        return same.length + mc === 0 ? prior : (same.reduce((s, o) => s + Number(o.amount), 0) + mc * prior) / (same.length + mc);
+        return mc === Infinity || same.length + mc === 0 ? prior : (same.reduce((s, o) => s + Number(o.amount), 0) + mc * prior) / (same.length + mc);
       });
       const mean = rows.reduce((s, r) => s + Number(r.amount), 0) / rows.length;
       const sse = rows.reduce((s, r, i) => s + (Number(r.amount) - pred[i]!) ** 2, 0);
