@@ -24,8 +24,10 @@ const KNOWN: ReadonlySet<string> = new Set([
   // encode writes its output through commands/output (temp file + rename); moves with the plan-folder work
   "encode/writeOutput.ts -> commands/output.ts",
 ]);
-/** Known circles (files, sorted, space-separated); none today. */
-const KNOWN_CIRCLES: ReadonlySet<string> = new Set<string>([]);
+/** Known circles (files, sorted, space-separated), owned by the encode reorganisation; may only shrink. */
+const KNOWN_CIRCLES: ReadonlySet<string> = new Set([
+  "encode/columnMaps.ts encode/hashedGroupMap.ts encode/structureMaps.ts",
+]);
 /** Files known to be over 300 lines, owned by a change in progress elsewhere; may only shrink. */
 const KNOWN_LONG: ReadonlySet<string> = new Set([
   "engine/source.ts", // the input layer, being split by the source/CLI-errors work
