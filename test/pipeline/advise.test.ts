@@ -56,7 +56,7 @@ describe("no detectable spread is m = ∞ (the prior), never 0", () => {
     const c = col(p, "appointment_id");
     expect(c.target!.prior.weight).toBeNull();
     const prior = p.target!.mean;
-    expect(prior).toBeCloseTo(0.1195, 4); // 13,739 of 115,000 rows (sample-data/README.md)
+    expect(prior).toBeCloseTo(0.1195, 3); // the no-show rate of the sample: 11.95 % (sample-data/README.md)
     expect(c.topLevels.length).toBeGreaterThan(0);
     for (const level of c.topLevels) {
       expect(level.rows).toBe(1);
