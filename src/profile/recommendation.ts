@@ -8,15 +8,9 @@ import type { ParentSpec } from "./hierarchyTypes.js";
 /**
  * A prior weight m of the m-estimate. `null` is "no detectable spread between levels": the
  * limit m → ∞, where every level takes the prior (JSON has no ∞). It is never 0 (0 = raw level
- * means, the opposite limit): read it with `isNoSpread` / `finiteWeight`, never `?? 0`.
+ * means, the opposite limit): test `weight === null` and use the prior; never `weight ?? 0`.
  */
 export type PriorWeight = number | null;
-
-/** The prior weight is infinite (no detectable spread: use the prior). */
-export const isNoSpread = (w: PriorWeight | undefined): w is null => w === null;
-
-/** The finite weight, or undefined at the limit m = ∞ (callers must then use the prior). */
-export const finiteWeight = (w: PriorWeight | undefined): number | undefined => (typeof w === "number" ? w : undefined);
 
 export type Encoding =
   | "drop"

@@ -111,6 +111,13 @@ describe("layers of src/", () => {
     expect(long).toEqual([]);
   });
 
+  it("no code reads a prior weight's null (no detectable spread, m = ∞) as 0", () => {
+    // null means the limit m → ∞ (the prior); `weight ?? 0` turned it into raw level means
+    const misread = [...graph.keys()].flatMap((f) => fs.readFileSync(path.join(SRC, f), "utf8").split("\n")
+      .filter((line) => !/^\s*(\*|\/\/)/.test(line) && /[wW]eight\w*\s*(\?\?|\|\|)\s*0\b/.test(line)).map((line) => `${f}: ${line.trim()}`));
+    expect(misread).toEqual([]);
+  });
+
   it("the checker finds a back-edge and a circle in a made-up graph", () => {
     const made = new Map([["engine/a.ts", ["profile/b.ts"]], ["profile/b.ts", ["engine/a.ts"]], ["stats/c.ts", []]]);
     expect(backEdges(made)).toEqual(["engine/a.ts -> profile/b.ts"]);
