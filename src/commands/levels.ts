@@ -89,10 +89,11 @@ async function scanLevelsWith(engine: Engine, inputs: string[], o: LevelScanOpti
   const profile = await adviseFromLevelTable(engine, {
     levelColumns, numeric: [], allColumns: targetName !== undefined ? [...levelColumns, targetName] : levelColumns,
     totals, target, targetColumn: targetName, policy, top: o.top ?? 20, decide: o.decide, levelTableOut: o.levelTableOut,
-    fold: externalFolds(folds, policy.seed), outOfFold: folds >= 2,
+    outOfFold: folds >= 2,
     input: { paths: files, rows: totals.rows, bytes: files.reduce((s, f) => s + fs.statSync(f).size, 0),
       fingerprint: fingerprintFiles(files), format: [...formats].join("+"), fromLevels: true },
   });
+  profile.settings.fold = externalFolds(folds, policy.seed);
   profile.settings.levelFolds = folds;
   return profile;
 }

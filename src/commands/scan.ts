@@ -101,8 +101,8 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
   if (totals.rows === 0) throw new TailsiftError("empty_input", `${describeFiles(source.files)} has a header but no rows; give a file with rows`);
   const skippedRows = await countSkippedRows(engine, source);
 
-  return adviseFromLevelTable(engine, {
-    levelColumns, numeric, allColumns: source.columns, totals, policy, top: options.top ?? 20, fold, outOfFold: true,
+  const profile = await adviseFromLevelTable(engine, {
+    levelColumns, numeric, allColumns: source.columns, totals, policy, top: options.top ?? 20, outOfFold: true,
     target: targetSpec ? checkTarget(targetSpec, totals) : undefined, targetColumn: options.target,
     decide: options.decide, levelTableOut: options.levelTableOut,
     input: {
@@ -110,4 +110,6 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
       ...(skippedRows !== undefined ? { skippedRows } : {}),
     },
   });
+  profile.settings.fold = fold; // the contract encode reads back (engine/folds readFoldContract)
+  return profile;
 }

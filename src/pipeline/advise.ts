@@ -16,8 +16,8 @@
  *
  * Each column's recommendation is the result of these steps; the reasons describe that result
  * (a stage that does not decide says why in its own words, never in the words of the choice it
- * did not make). The top-level list is cut to `top` only at the end: --top shapes the display,
- * never the advice.
+ * did not make). The caller records how folds were made (settings.fold). The top-level list is
+ * cut to `top` only at the end: --top shapes the display, never the advice.
  */
 import { addHashing } from "../advice/hashWidth.js";
 import { overrideRecommendation } from "../advice/overrides.js";
@@ -25,7 +25,6 @@ import type { AdvicePolicy } from "../advice/policy.js";
 import { recommend } from "../advice/recommend.js";
 import type { PassTotals } from "../engine/aggregate.js";
 import type { Engine } from "../engine/db.js";
-import type { FoldContract } from "../engine/folds.js";
 import { writeLevelTable } from "../engine/levelFile.js";
 import { applyEvidence } from "../evidence/applyEvidence.js";
 import { evidenceFor } from "../evidence/evidenceFor.js";
@@ -48,8 +47,6 @@ export interface AdviceInput {
   policy: AdvicePolicy;
   top: number;
   decide?: Record<string, Encoding>;
-  /** How the level table's rows were assigned to folds; recorded as settings.fold. */
-  fold: FoldContract;
   /** False when the level table has one fold: out-of-fold figures are not measured (scan --levels). */
   outOfFold: boolean;
   /** Write the level table (Parquet) here before the engine closes. */
@@ -125,7 +122,7 @@ function assemble(ctx: AdviceInput, columns: ColumnProfile[]): Profile {
     input: ctx.input,
     ...(target ? { target } : {}),
     settings: {
-      folds: policy.folds, seed: policy.seed, top: ctx.top, fold: ctx.fold, maxOneHot: policy.maxOneHot,
+      folds: policy.folds, seed: policy.seed, top: ctx.top, maxOneHot: policy.maxOneHot,
       minLevelRows: policy.minLevelRows, coverage: policy.coverage, collisionBudget: policy.collisionBudget,
     },
     columns: all,

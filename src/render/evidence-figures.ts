@@ -58,29 +58,34 @@ export function parentChainText(specs: readonly ParentSpec[]): string {
   return specs.map(plain).join(" → ");
 }
 
-const weightText = (w: PriorWeight): string => (w === null ? "∞" : formatCompact(w));
+/** A weight: a number, else (null: no detectable spread; or absent from an edited profile) m = ∞. */
+const weightText = (w: PriorWeight | undefined): string => (finite(w) ? formatCompact(w) : "∞");
+/** A count that an edited profile may lack: "n/a" then. */
+const countText = (n: number | null | undefined): string => formatCount(finite(n) ? n : null);
 
 /**
  * The key parameters of a candidate, short: what it fitted, without repeating the folds. A pooled
  * candidate shows its first three kept levels (data: the renderers escape them). A null weight
- * means no detectable spread, shown as m = ∞; other missing figures print "n/a".
+ * means no detectable spread, shown as m = ∞; other missing figures print "n/a" (a saved profile
+ * may have been edited, so every figure is read defensively).
  */
 export function candidateParamsText(c: EvidenceCandidate): string {
   switch (c.candidate) {
     case "pooled-one-hot": {
-      const keep = c.params.keep;
+      const keep: readonly unknown[] = Array.isArray(c.params.keep) ? c.params.keep : [];
       const shown = keep.slice(0, KEPT_SHOWN).map(shortLevel).join(", ") + (keep.length > KEPT_SHOWN ? ", …" : "");
-      return `keep ${formatCount(keep.length)} (${shown}) + other; ${formatShare(c.params.pooledRowShare)} of rows pooled`;
+      return `keep ${formatCount(keep.length)} (${shown}) + other; ${formatShare(finite(c.params.pooledRowShare) ? c.params.pooledRowShare : null)} of rows pooled`;
     }
     case "target-kfold": return `m = ${weightText(c.params.weight)}`;
     case "backoff-target-kfold": {
       const p = c.params;
-      return `parents ${parentChainText(p.parents)}; ≥ ${formatCount(p.minRows)} rows; `
-        + `${formatCount(p.groups)} groups; m = ${weightText(p.weight)}`;
+      return `parents ${parentChainText(Array.isArray(p.parents) ? p.parents : [])}; ≥ ${countText(p.minRows)} rows; `
+        + `${countText(p.groups)} groups; m = ${weightText(p.weight)}`;
     }
     case "hierarchical-target-kfold": {
       const p = c.params;
-      return `parent ${parentChainText([p.parent])}, ${formatCount(p.parentGroups)} groups; m = ${weightText(p.weight)}, parent m = ${weightText(p.parentWeight)}`;
+      const parent = typeof p.parent === "object" && p.parent !== null ? parentChainText([p.parent]) : "—";
+      return `parent ${parent}, ${countText(p.parentGroups)} groups; m = ${weightText(p.weight)}, parent m = ${weightText(p.parentWeight)}`;
     }
     case "overall-mean": return "—";
   }

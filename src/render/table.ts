@@ -9,8 +9,9 @@ import { formatCount, formatNumber, formatShare } from "./format.js";
 function keyParams(c: ColumnProfile): string {
   const rec = c.recommendation;
   switch (rec.encoding) {
-    case "one-hot": return `${rec.params.levels.length} cols`;
-    case "pooled-one-hot": return `${rec.params.keep.length}+other, pooled ${formatShare(rec.params.pooledRowShare)}`;
+    // a saved profile may have been edited: lists are read defensively
+    case "one-hot": return `${Array.isArray(rec.params.levels) ? rec.params.levels.length : 0} cols`;
+    case "pooled-one-hot": return `${Array.isArray(rec.params.keep) ? rec.params.keep.length : 0}+other, pooled ${formatShare(rec.params.pooledRowShare)}`;
     case "target-kfold": {
       const p = rec.params;
       const how = p.grouping === "backoff" ? `backoff ${formatCount(p.groups)} groups, ` : p.prior === "hierarchical" ? "hierarchical, " : "";
