@@ -42,6 +42,7 @@ export function buildProgram(io: CliIO): Command {
     .option("--as-categorical <names>", "profile these numeric-looking columns as levels", list)
     .option("--folds <k>", "folds for out-of-fold figures", integer("--folds"), DEFAULT_FOLD_COUNT)
     .option("--seed <n>", "seed of the fold assignment", integer("--seed"), DEFAULT_FOLD_SEED)
+    .option("--fold-by <names>", "entity-grouped folds: hash these key columns (comma-separated) so every row of an entity shares a fold", list)
     .option("--top <n>", "top levels listed per column", integer("--top"), 20)
     .option("--max-one-hot <n>", "widest one-hot block advised", integer("--max-one-hot"), 16)
     .option("--min-level-rows <n>", "rows a level needs for its own column", integer("--min-level-rows"), 30)

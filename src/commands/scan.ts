@@ -6,12 +6,13 @@
 import { DEFAULT_POLICY, type AdvicePolicy } from "../advice/policy.js";
 import { buildLevelTable } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
-import { rowHashFolds } from "../engine/folds.js";
+import { checkFoldBy, groupedFolds, rowHashFolds, type FoldContract } from "../engine/folds.js";
 import { looksNumeric, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
 import { checkMeasuredWidth, countSkippedRows, describeFiles, openSource, type Source, type SourceOptions } from "../engine/source.js";
 import { resolveTarget, type TargetSpec } from "../engine/target.js";
 import { TailsiftError } from "../errors.js";
 import { adviseFromLevelTable } from "../pipeline/advise.js";
+import { addFoldNotes } from "../pipeline/foldNotes.js";
 import { checkTarget } from "../profile/checkTarget.js";
 import type { Encoding, Profile, TargetKind } from "../profile/types.js";
 
@@ -33,6 +34,8 @@ export interface ScanOptions extends EngineOptions, SourceOptions {
   decide?: Record<string, Encoding>;
   /** Write the level table (Parquet) here before the engine closes. */
   levelTableOut?: string;
+  /** Entity-grouped folds: the key columns (--fold-by); absent = row folds. */
+  foldBy?: string[];
   /** Called with the engine while the main pass runs (progress display, cancellation). */
   onEngine?: (engine: Engine | null) => void;
 }
@@ -58,6 +61,7 @@ export async function scan(inputs: readonly string[], options: ScanOptions = {})
   const policy: AdvicePolicy = { ...DEFAULT_POLICY, ...options.policy };
   const foldOf = (columns: readonly string[]) => rowHashFolds(columns, policy.folds, policy.seed);
   foldOf([]); // the fold options are checked before anything is read
+  if (options.foldBy !== undefined && options.foldBy.length === 0) checkFoldBy([], []);
   validatePolicy(policy);
   return withEngine(options, async (engine) => {
     options.onEngine?.(engine);
@@ -71,12 +75,13 @@ export async function scan(inputs: readonly string[], options: ScanOptions = {})
   });
 }
 
-async function scanWith(engine: Engine, inputs: readonly string[], options: ScanOptions, policy: AdvicePolicy, foldOf: (columns: readonly string[]) => ReturnType<typeof rowHashFolds>): Promise<Profile> {
+async function scanWith(engine: Engine, inputs: readonly string[], options: ScanOptions, policy: AdvicePolicy, foldOf: (columns: readonly string[]) => FoldContract): Promise<Profile> {
   const source = await openSource(engine, inputs, options);
   checkNames(source, options.columns, "--columns");
   checkNames(source, options.exclude, "--exclude");
   checkNames(source, options.asCategorical, "--as-categorical");
   if (options.target !== undefined) checkNames(source, [options.target], "--target");
+  const foldBy = options.foldBy !== undefined ? checkFoldBy(options.foldBy, source.columns, options.target) : undefined;
   for (const name of Object.keys(options.decide ?? {})) checkNames(source, [name], "--decide");
 
   const chosen = options.columns && options.columns.length > 0 ? new Set(options.columns) : null;
@@ -94,8 +99,8 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
     targetSpec = resolveTarget({ column: options.target, kind: options.targetKind, positive: options.positive }, sampled);
   }
 
-  // the fold of a row reads every column of the input, in file order
-  const fold = foldOf(source.columns);
+  // the fold of a row reads every column of the input, in file order (or, with --fold-by, the key)
+  const fold = foldBy ? groupedFolds(foldBy, policy.folds, policy.seed) : foldOf(source.columns);
   const totals = await buildLevelTable(engine, { view: source.view, levelColumns, countColumns: numeric, target: targetSpec, fold },
     `scanning ${source.files.length === 1 ? `'${source.files[0]}'` : `${source.files.length} files`}`);
   if (totals.rows === 0) throw new TailsiftError("empty_input", `${describeFiles(source.files)} has a header but no rows; give a file with rows`);
@@ -110,6 +115,7 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
       ...(skippedRows !== undefined ? { skippedRows } : {}),
     },
   });
+  await addFoldNotes(engine, source.view, profile, levelColumns, fold);
   profile.settings.fold = fold; // the contract encode reads back (engine/folds readFoldContract)
   return profile;
 }

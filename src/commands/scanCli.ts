@@ -29,6 +29,8 @@ export interface ScanCliOptions {
   /** The inputs are level tables (from the query of `tailsift sql`), not raw rows. */
   levels?: boolean;
   redact?: boolean;
+  /** Entity-grouped folds by these key columns. */
+  foldBy?: string[];
 }
 
 interface IO { stdout: (t: string) => void; stderr: (t: string) => void }
@@ -56,7 +58,7 @@ async function scanAndWrite(inputs: string[], o: ScanCliOptions, io: IO, onEngin
     target: o.target, positive: o.positive, targetKind: o.targetKind,
     columns: o.columns, exclude: o.exclude, asCategorical: o.asCategorical, top: o.top,
     policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget },
-    decide: o.decide,
+    decide: o.decide, ...(o.foldBy !== undefined ? { foldBy: o.foldBy } : {}),
     memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
     skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter,
     levelTableOut: levelTemp,
@@ -117,7 +119,7 @@ export async function runReport(profilePath: string, out: string, io: IO): Promi
  * level tables; --folds only matters for a one-fold table (the K recorded for target-kfold).
  */
 export function levelScanOptions(o: ScanCliOptions, onEngine: (e: Engine | null) => void): LevelScanOptions {
-  const refused = [o.asCategorical?.length ? "--as-categorical" : "", o.skipBadRows ? "--skip-bad-rows" : "", o.encoding ? "--encoding" : ""].filter((x) => x);
+  const refused = [o.foldBy !== undefined ? "--fold-by" : "", o.asCategorical?.length ? "--as-categorical" : "", o.skipBadRows ? "--skip-bad-rows" : "", o.encoding ? "--encoding" : ""].filter((x) => x);
   if (refused.length > 0) throw new TailsiftError("bad_option", `${refused.join(", ")} do${refused.length === 1 ? "es" : ""} not apply to --levels: level tables are already counted`);
   return {
     target: o.target, positive: o.positive, targetKind: o.targetKind, columns: o.columns, exclude: o.exclude, top: o.top,

@@ -9,13 +9,18 @@
  *  - "single": every row in fold 0 (a pass that needs no folds, e.g. encode --for scoring).
  *  - "external": folds given by the user's own expression (tailsift sql --fold-expr, read back
  *    by scan --levels); tailsift cannot reproduce them, so encode --for training refuses them.
- * Room is left for entity-grouped folds (a hash of named key columns) and time-ordered blocks.
+ *  - "grouped": a seeded hash of the text of the named key columns only (`--fold-by`), modulo k,
+ *    so every row of an entity (an owner, a patient) shares one fold; rows whose key is missing
+ *    form one entity of their own. Same formula as row-hash, over fewer columns.
+ * Room is left for time-ordered blocks.
  */
 import { TailsiftError } from "../errors.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
 
 /** The hash `row-hash` folds use (DuckDB's hash() of the row's text columns, seeded). */
 export const FOLD_HASH_NAME = "duckdb-hash-of-row-text";
+/** The hash `grouped` folds use (the same seeded hash, of the key columns' text only). */
+export const GROUPED_FOLD_HASH = "duckdb-hash-of-key-text";
 /** What `external` folds record as their hash. */
 export const EXTERNAL_FOLD_HASH = "the fold expression given to tailsift sql";
 
@@ -23,7 +28,7 @@ export const DEFAULT_FOLD_COUNT = 5;
 export const DEFAULT_FOLD_SEED = 42;
 export const MAX_FOLD_COUNT = 100;
 
-export type FoldKind = "row-hash" | "single" | "external";
+export type FoldKind = "row-hash" | "grouped" | "single" | "external";
 
 export interface FoldContract {
   kind: FoldKind;
@@ -32,7 +37,7 @@ export interface FoldContract {
   seed: number;
   /** Number of folds. */
   k: number;
-  /** The columns the fold reads, in order (row-hash: every column of the input). */
+  /** The columns the fold reads, in order (row-hash: every column of the input; grouped: the key). */
   keyColumns: string[];
 }
 
@@ -53,6 +58,39 @@ export function checkFoldSeed(seed: number): number {
 /** Row-hash folds over `keyColumns` (validated). */
 export function rowHashFolds(keyColumns: readonly string[], k: number, seed: number): FoldContract {
   return { kind: "row-hash", hash: FOLD_HASH_NAME, seed: checkFoldSeed(seed), k: checkFoldCount(k), keyColumns: [...keyColumns] };
+}
+
+/**
+ * The one check of --fold-by: at least one column, each a column of the input, none twice, not
+ * the target. Returns the key columns in the order given.
+ * @throws TailsiftError `bad_option` / `unknown_column` with a one-line reason.
+ */
+export function checkFoldBy(keyColumns: readonly string[], inputColumns: readonly string[], target?: string): string[] {
+  const names = keyColumns.map((c) => c.trim());
+  if (names.length === 0 || names.some((c) => c === "")) throw bad("--fold-by needs one or more column names (comma-separated)");
+  for (const c of names) {
+    if (!inputColumns.includes(c)) throw new TailsiftError("unknown_column", `--fold-by: column '${c}' not found; columns are: ${inputColumns.join(", ")}`);
+    if (c === target) throw bad(`--fold-by: '${c}' is the target; group folds by an entity column, not by the target`);
+  }
+  const dup = names.find((c, i) => names.indexOf(c) !== i);
+  if (dup !== undefined) throw bad(`--fold-by names '${dup}' twice`);
+  return names;
+}
+
+/** Entity-grouped folds over the key columns (validated by checkFoldBy first). */
+export function groupedFolds(keyColumns: readonly string[], k: number, seed: number): FoldContract {
+  if (keyColumns.length === 0) throw bad("--fold-by needs one or more column names (comma-separated)");
+  return { kind: "grouped", hash: GROUPED_FOLD_HASH, seed: checkFoldSeed(seed), k: checkFoldCount(k), keyColumns: [...keyColumns] };
+}
+
+/** The fold kind in plain words, for the record. */
+export function foldKindText(fold: FoldContract): string {
+  switch (fold.kind) {
+    case "row-hash": return `row folds: a seeded hash of each row's text, ${fold.k} folds`;
+    case "grouped": return `entity-grouped folds by ${fold.keyColumns.join(", ")}: every row of an entity shares one of ${fold.k} folds, so out-of-fold figures are measured on entities the fit never saw`;
+    case "single": return "one fold (no out-of-fold figures)";
+    case "external": return `folds from the fold expression given to tailsift sql (${fold.k} folds)`;
+  }
 }
 
 /** Every row in fold 0. */
@@ -78,6 +116,7 @@ export function rowHashFoldSql(keyColumns: readonly string[], seed: number, k: n
 export function foldSql(fold: FoldContract): string {
   switch (fold.kind) {
     case "row-hash": return rowHashFoldSql(fold.keyColumns, fold.seed, fold.k);
+    case "grouped": return rowHashFoldSql(fold.keyColumns, fold.seed, fold.k);
     case "single": return "0::INTEGER";
     case "external": throw new TailsiftError("bad_plan", "these folds came from the fold expression given to tailsift sql and cannot be reproduced by tailsift");
   }
@@ -97,6 +136,8 @@ export function readFoldContract(settings: { fold?: unknown; foldColumns?: unkno
   if (f !== undefined) {
     const c = (typeof f === "object" && f !== null ? f : {}) as Record<string, unknown>;
     if (c.kind === "external") throw refuse("the plan's folds came from the fold expression given to tailsift sql (settings.fold.kind is external)");
+    if (c.kind === "grouped" && c.hash === GROUPED_FOLD_HASH && isStringList(c.keyColumns) && c.keyColumns.length > 0
+      && typeof c.k === "number" && typeof c.seed === "number") return groupedFolds(c.keyColumns, c.k, c.seed);
     if (c.kind !== "row-hash" || c.hash !== FOLD_HASH_NAME || !isStringList(c.keyColumns) || c.keyColumns.length === 0
       || typeof c.k !== "number" || typeof c.seed !== "number") {
       throw refuse("the plan's settings.fold is not a row-hash fold contract");

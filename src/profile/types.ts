@@ -116,4 +116,6 @@ export interface ColumnProfile {
   /** Candidate encodings scored out-of-fold and the one-standard-error choice. */
   evidence?: Evidence;
   recommendation: Recommendation;
+  /** With --fold-by: the share of rows whose level stays within one entity of the key (engine/keyNesting). */
+  keyNesting?: { keyColumns: string[]; share: number };
 }
