@@ -1,7 +1,7 @@
 /**
  * pipeline/foldNotes: what the record says about entity-grouped folds (--fold-by). For each
  * measured column (the key columns themselves excepted) it stores the nesting share
- * (engine/keyNesting) and, when the share reaches NESTING_THRESHOLD, adds a caution saying that
+ * (engine/keyNesting) and, when the share of a categorical column reaches NESTING_THRESHOLD, adds a caution saying that
  * the column is nearly a label of the entity, why row-fold figures would be optimistic for it,
  * and that the figures in this record use the entity-grouped folds.
  */
@@ -30,7 +30,8 @@ export async function addFoldNotes(engine: Engine, view: string, profile: Profil
     const column = profile.columns.find((c) => c.name === name);
     if (!column || share === null || share === undefined) return;
     column.keyNesting = { keyColumns: [...fold.keyColumns], share };
-    if (share >= NESTING_THRESHOLD) {
+    // identifiers and constants are dropped: their out-of-fold figures decide nothing
+    if (share >= NESTING_THRESHOLD && column.role === "categorical") {
       const rec = column.recommendation;
       column.recommendation = { ...rec, cautions: [...(rec.cautions ?? []), nestingCaution(share, fold.keyColumns)] };
     }

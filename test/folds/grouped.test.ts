@@ -14,6 +14,7 @@ import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { runCli } from "../../src/cli.js";
 import { encode } from "../../src/commands/encode.js";
+import { levelSql } from "../../src/commands/sql.js";
 import { scan } from "../../src/commands/scan.js";
 import { writeReportFolder } from "../../src/commands/scanCli.js";
 import { withEngine } from "../../src/engine/db.js";
@@ -152,9 +153,22 @@ describe("entity-grouped folds", () => {
   it("two key columns hash together; without --fold-by the contract is the row hash over every column", async () => {
     const p = await scan([file], { target: "no_show", foldBy: ["owner_id", "pet_name"] });
     expect(p.settings.fold!.keyColumns).toEqual(["owner_id", "pet_name"]);
+    const c = collector();
+    expect(await runCli(["scan", file, "--target", "no_show", "--fold-by", "owner_id"], c.io)).toBe(0);
+    expect(c.out.split("\n")[0]).toMatch(/; 5 folds, seed 42 \(grouped by owner_id\)$/);
     const plain = await scan([file], { target: "no_show" });
     expect(plain.settings.fold).toEqual({ kind: "row-hash", hash: "duckdb-hash-of-row-text", seed: 42, k: 5, keyColumns: data.header });
     expect(plain.columns.every((c) => c.keyNesting === undefined)).toBe(true);
+  });
+
+  it("tailsift sql with a fold expression over the key only (the README's DuckDB example) keeps each owner in one fold", async () => {
+    const sql = levelSql({ columns: ["owner_id"], from: "visits", target: "no_show", targetKind: "binary", foldExpr: 'hash("owner_id")', folds: 5 });
+    const rows = await withEngine({ threads: 1 }, async (e) => {
+      await e.run(`CREATE TEMP VIEW visits AS SELECT * FROM read_csv(${quoteLiteral(file)}, all_varchar = true)`, "view");
+      return e.rows<{ level: string; folds: number }>(`SELECT level, count(DISTINCT fold)::DOUBLE AS folds FROM (${sql}) GROUP BY level`, "sql folds");
+    });
+    expect(rows.length).toBe(240);
+    expect(rows.every((r) => r.folds === 1)).toBe(true);
   });
 
   it("readFoldContract reads a grouped contract back and refuses a damaged one", () => {
