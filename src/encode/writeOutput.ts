@@ -117,8 +117,8 @@ export async function writeOutput(engine: Engine, ctx: WriteContext): Promise<En
   }
 }
 
-const foldManifest = (column: string, f: { k: number; seed: number; hash: string; keyColumns: string[] }) =>
-  ({ column, k: f.k, seed: f.seed, hash: f.hash, identityColumns: f.keyColumns });
+const foldManifest = (column: string, f: { kind: string; k: number; seed: number; hash: string; keyColumns: string[] }) =>
+  ({ column, k: f.k, seed: f.seed, hash: f.hash, identityColumns: f.keyColumns, ...(f.kind === "grouped" ? { kind: "grouped" } : {}) });
 
 function manifest(ctx: WriteContext, entries: Record<string, unknown>[]): Record<string, unknown> {
   const { profile, options: o } = ctx;

@@ -85,6 +85,8 @@ describe("entity-grouped folds", () => {
       expect(owners.length).toBe(data.rows.length);
       expect(column(csv, "visit_id")).toEqual(data.rows.map((r) => r[0]));
       owners.forEach((o, i) => expect(Number(folds[i])).toBe(ownerFold.get(o!)));
+      const manifest = JSON.parse(fs.readFileSync(`${out}.mappings/mappings.json`, "utf8"));
+      expect(manifest.folds).toMatchObject({ kind: "grouped", hash: "duckdb-hash-of-key-text", identityColumns: ["owner_id"], k: 5, seed: 7 });
     }
   });
 
@@ -148,6 +150,10 @@ describe("entity-grouped folds", () => {
       expect(fs.existsSync(path.join(out, "profile.json"))).toBe(false);
     }
     await expect(scan([file], { foldBy: [] })).rejects.toThrow(/^--fold-by needs one or more column names/);
+    // level tables carry their own folds
+    const c = collector();
+    expect(await runCli(["scan", "--levels", path.join(dir, "plan", "levels.parquet"), "--fold-by", "owner_id"], c.io)).toBe(2);
+    expect(c.err.trim()).toBe("tailsift: --fold-by does not apply to --levels: level tables are already counted");
   });
 
   it("two key columns hash together; without --fold-by the contract is the row hash over every column", async () => {
