@@ -18,8 +18,8 @@ import { levelSql } from "../../src/commands/sql.js";
 import { scan } from "../../src/commands/scan.js";
 import { writeReportFolder } from "../../src/commands/scanCli.js";
 import { withEngine } from "../../src/engine/db.js";
-import { foldSql, readFoldContract } from "../../src/engine/folds.js";
-import { NESTING_THRESHOLD } from "../../src/engine/keyNesting.js";
+import { foldSql, groupedFolds, readFoldContract } from "../../src/engine/folds.js";
+import { keyNestingShares, NESTING_THRESHOLD } from "../../src/engine/keyNesting.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
 import { validateProfile } from "../../src/profile/schema.js";
 import type { Profile } from "../../src/profile/types.js";
@@ -32,6 +32,7 @@ afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 const data = ownerVisits();
 const file = writeFile(dir, "visits.csv", data.csv);
 
+const groupedFoldsFor = (key: string[]) => groupedFolds(key, 5, 42);
 const gap = (p: Profile, name: string): number => {
   const l = p.columns.find((c) => c.name === name)!.target!.leakage;
   return l.inSample! - l.outOfFold!;
@@ -159,6 +160,13 @@ describe("entity-grouped folds", () => {
   it("two key columns hash together; without --fold-by the contract is the row hash over every column", async () => {
     const p = await scan([file], { target: "no_show", foldBy: ["owner_id", "pet_name"] });
     expect(p.settings.fold!.keyColumns).toEqual(["owner_id", "pet_name"]);
+    // the nesting share over a two-column key, recounted: species levels span many (owner, pet) pairs
+    const pairs = new Map<string, Set<string>>();
+    for (const r of data.rows) pairs.set(r[4]!, (pairs.get(r[4]!) ?? new Set()).add(`${r[1]}\u0000${r[2]}`));
+    const nested = data.rows.filter((r) => pairs.get(r[4]!)!.size === 1).length / data.rows.length;
+    expect(p.columns.find((c) => c.name === "species")!.keyNesting).toEqual({ keyColumns: ["owner_id", "pet_name"], share: nested });
+    expect(p.columns.find((c) => c.name === "payment")!.keyNesting!.share).toBe(0);
+    expect(p.columns.find((c) => c.name === "visit_id")!.keyNesting!.share).toBe(1); // one visit, one (owner, pet)
     const c = collector();
     expect(await runCli(["scan", file, "--target", "no_show", "--fold-by", "owner_id"], c.io)).toBe(0);
     expect(c.out.split("\n")[0]).toMatch(/; 5 folds, seed 42 \(grouped by owner_id\)$/);
@@ -175,6 +183,18 @@ describe("entity-grouped folds", () => {
     });
     expect(rows.length).toBe(240);
     expect(rows.every((r) => r.folds === 1)).toBe(true);
+  });
+
+  it("a missing key is one entity: its rows share a fold and count as one entity in the nesting share", async () => {
+    // (key, x): L1 with a twice, L2 with a missing key twice, L3 with a and a missing key, L4 with b
+    const small = writeFile(dir, "missing-key.csv", "k,x\na,L1\na,L1\n,L2\n,L2\na,L3\n,L3\nb,L4\n");
+    const [shares, folds] = await withEngine({ threads: 1 }, async (e) => {
+      await e.run(`CREATE TEMP VIEW small AS SELECT * FROM read_csv(${quoteLiteral(small)}, all_varchar = true)`, "view");
+      return [await keyNestingShares(e, "small", ["x"], ["k"]),
+        await e.rows<{ n: number }>(`SELECT count(DISTINCT ${foldSql(groupedFoldsFor(["k"]))})::DOUBLE AS n FROM small WHERE k IS NULL`, "missing-key folds")];
+    });
+    expect(shares).toEqual([5 / 7]); // L1 (2 rows) + L2 (2) + L4 (1) stay within one entity; L3 spans two
+    expect(folds[0]!.n).toBe(1);
   });
 
   it("readFoldContract reads a grouped contract back and refuses a damaged one", () => {
