@@ -50,7 +50,7 @@ describe("summariseCountOfCounts", () => {
 
 describe("goodTuringUnseen", () => {
   it("gives n1/N on the full prosody table", () => {
-    // Gale & Sampson (1995) prosody data: 120/30,902 = 0.0038832 (recomputed, CHECKS.md).
+    // Gale & Sampson (1995) prosody data: 120/30,902 = 0.0038832 (recomputed; docs/references.md "Unseen levels").
     expect(goodTuringUnseen(PROSODY)).toBeCloseTo(0.0038832, 7);
   });
 

@@ -21,7 +21,7 @@ describe("derSimonianLaird", () => {
 
   it("BCG vaccine trials: τ² = 0.30876, μ = −0.7141, Q = 152.23, pooled RR 0.489", () => {
     // Colditz et al. (1994), 13 trials; counts as [vaccinated TB, vaccinated no TB, control TB,
-    // control no TB] — FROM MEMORY (docs/references.md "Shrinkage"). logRR = ln((a/(a+b))/(c/(c+d))),
+    // control no TB] — FROM MEMORY (docs/references.md "Shrinkage of level means"). logRR = ln((a/(a+b))/(c/(c+d))),
     // var = 1/a − 1/(a+b) + 1/c − 1/(c+d).
     const trials: [number, number, number, number][] = [
       [4, 119, 11, 128], // Aronson 1948

@@ -19,7 +19,7 @@ describe("populationStabilityIndex", () => {
   });
 
   it("(.1,.2,.3,.4) vs uniform → 0.2282174", () => {
-    // CHECKS.md (recomputed).
+    // docs/references.md "Population stability index" (recomputed).
     expect(populationStabilityIndex([0.1, 0.2, 0.3, 0.4], [0.25, 0.25, 0.25, 0.25])).toBeCloseTo(0.2282174, 7);
     // Counts give the same value.
     expect(populationStabilityIndex([10, 20, 30, 40], [5, 5, 5, 5])).toBeCloseTo(0.2282174, 7);

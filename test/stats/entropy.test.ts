@@ -13,7 +13,7 @@ function fromCounts(counts: readonly number[]): CountOfCounts[] {
 
 describe("entropy from count-of-counts", () => {
   it("entropyBits reproduces the SciPy examples from a count-of-counts table", () => {
-    // SciPy docs (docs/references.md "Entropy"): entropy([1/2, 1/2], base=2) = 1.0 (published);
+    // SciPy docs (docs/references.md "Entropy and effective number of levels"): entropy([1/2, 1/2], base=2) = 1.0 (published);
     // two levels of one row each.
     expect(entropyBits([{ count: 1, levels: 2 }])).toBeCloseTo(1.0, 14);
     // SciPy docs: entropy([9/10, 1/10], base=2) = 0.46899559358928117 (published); levels of 9 and 1 rows.

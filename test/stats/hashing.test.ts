@@ -4,7 +4,7 @@ import { seededRandom } from "./seededRandom.js";
 
 describe("expectedBucketsUsed / expectedCollidingLevels", () => {
   it("w = n = 1024 → 647.475 buckets used; w = 2¹⁸, n = 10,000 → 9,811.686", () => {
-    // CHECKS.md (recomputed from w(1 − (1 − 1/w)ⁿ)).
+    // docs/references.md "Hashing collisions" (recomputed from w(1 − (1 − 1/w)ⁿ)).
     expect(expectedBucketsUsed(1024, 1024)).toBeCloseTo(647.475, 3);
     expect(expectedBucketsUsed(10000, 2 ** 18)).toBeCloseTo(9811.686, 3);
     expect(expectedCollidingLevels(1024, 1024)).toBeCloseTo(1024 - 647.475, 3);

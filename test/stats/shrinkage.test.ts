@@ -8,7 +8,7 @@ const EM_HITS = [18, 17, 16, 15, 14, 14, 13, 12, 11, 11, 10, 10, 10, 10, 10, 9, 
 const EM_TRUTH = [0.346, 0.298, 0.276, 0.222, 0.273, 0.27, 0.263, 0.21, 0.269, 0.23, 0.264, 0.256, 0.303, 0.264, 0.226, 0.285, 0.316, 0.2];
 
 // Rat tumour data (Gelman et al., Bayesian Data Analysis 3rd ed., ch. 5, from Tarone 1982):
-// the 70 historical experiments, copied from docs/references.md "Shrinkage" (published dataset).
+// the 70 historical experiments, copied from docs/references.md "Shrinkage of level means" (published dataset).
 const rep = (value: number, times: number): number[] => Array.from({ length: times }, () => value);
 const RAT_Y = [
   ...rep(0, 14), ...rep(1, 8), ...rep(2, 9), 1, 5, 2, 5, 3, 2, 7, 7, 3, 3, 2, 9, 10, ...rep(4, 7),
@@ -22,7 +22,7 @@ const RAT_N = [
 
 describe("betaBinomialPriorWeight (moment estimator, k − 1 form)", () => {
   it("Efron–Morris data: S = 3.709877, ρ̂ = 0.0027101, m = 368.0", () => {
-    // docs/references.md "Shrinkage", beta-binomial moment estimator on Efron & Morris (1975) (recomputed).
+    // docs/references.md "Shrinkage of level means", beta-binomial moment estimator on Efron & Morris (1975) (recomputed).
     const sums = betaBinomialSums(EM_HITS.map((positives) => ({ rows: 45, positives })));
     expect(sums.rows).toBe(810);
     expect(sums.positives).toBe(215);
@@ -41,7 +41,7 @@ describe("betaBinomialPriorWeight (moment estimator, k − 1 form)", () => {
     const sums = betaBinomialSums(levels);
     expect(sums.positives).toBe(263);
     expect(sums.rows).toBe(1725);
-    // Moment estimator figures: docs/references.md "Shrinkage" (recomputed; Kleinman 1973 tradition — memory).
+    // Moment estimator figures: docs/references.md "Shrinkage of level means" (recomputed; Kleinman 1973 tradition — memory).
     const fit = betaBinomialPriorWeight(sums);
     expect(fit.mean).toBeCloseTo(0.152464, 6);
     expect(fit.S).toBeCloseTo(18.1988, 4);
@@ -112,7 +112,7 @@ describe("mEstimate", () => {
   });
 
   it("cuts the total squared error against the rest-of-season rates: 0.07532 → 0.02131", () => {
-    // docs/references.md "Shrinkage": raw 0.07532, shrunken 0.02131 (recomputed from Efron &
+    // docs/references.md "Shrinkage of level means": raw 0.07532, shrunken 0.02131 (recomputed from Efron &
     // Morris's published data and truth).
     const raw = rates.reduce((s, y, i) => s + (y - (EM_TRUTH[i] ?? 0)) ** 2, 0);
     const shrunk = EM_HITS.reduce((s, h, i) => s + (mEstimate(h, 45, m, grand) - (EM_TRUTH[i] ?? 0)) ** 2, 0);
