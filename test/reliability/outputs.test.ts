@@ -10,6 +10,7 @@ import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { runCli } from "../../src/cli.js";
 import { encode } from "../../src/commands/encode.js";
+import { expectCliError } from "../helpers/cliError.js";
 import { collector, mulberry32, tempDir, writeFile } from "../helpers/tmp.js";
 
 const dir = tempDir("outputs");
@@ -54,9 +55,7 @@ describe("an existing output is replaced only by a complete one", () => {
     const before = Object.fromEntries(files.map((f) => [f, digest(path.join(out, f))]));
 
     const bad = writeFile(dir, "bad.csv", "clinic,species,no_show\nc1,dog,1\nc2,cat,1\n");
-    const c = collector();
-    expect(await runCli(["scan", bad, "--target", "no_show", "--out", out], c.io)).toBe(2);
-    expect(c.err).toMatch(/single value/);
+    await expectCliError(["scan", bad, "--target", "no_show", "--out", out], "target_single_value", /single value/);
     expect(fs.readdirSync(out).sort()).toEqual(files); // no temp files either
     for (const f of files) expect(digest(path.join(out, f)), f).toBe(before[f]);
   });
