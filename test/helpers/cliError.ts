@@ -14,8 +14,9 @@ import { collector } from "./tmp.js";
 export interface CliFailure {
   /** What runCli returned (the process exit code). */
   exit: number;
-  /** Everything printed on stderr by runCli. */
+  /** Everything printed on stderr and stdout by runCli. */
   stderr: string;
+  stdout: string;
   /** The thrown error's stable code ("commander.unknownOption" etc. for commander's errors). */
   code: string;
   /** The thrown error's exit code. */
@@ -34,8 +35,9 @@ export async function cliFailure(argv: readonly string[]): Promise<CliFailure> {
   }
   const c = collector();
   const exit = await runCli(argv, c.io);
-  if (isTailsiftError(thrown)) return { exit, stderr: c.err, code: thrown.code, exitCode: thrown.exitCode, message: thrown.message };
-  if (thrown instanceof CommanderError) return { exit, stderr: c.err, code: thrown.code, exitCode: thrown.exitCode, message: thrown.message };
+  const printed = { exit, stderr: c.err, stdout: c.out };
+  if (isTailsiftError(thrown)) return { ...printed, code: thrown.code, exitCode: thrown.exitCode, message: thrown.message };
+  if (thrown instanceof CommanderError) return { ...printed, code: thrown.code, exitCode: thrown.exitCode, message: thrown.message };
   throw new Error(`expected ${argv.join(" ")} to fail with a TailsiftError, got ${thrown === null ? "success" : String(thrown)}`);
 }
 
