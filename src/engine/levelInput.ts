@@ -83,7 +83,7 @@ interface FoldSums { rows: number; n_y: number; sum_y: number; sum_y2: number }
 async function foldTotals(engine: Engine, names: readonly string[]): Promise<Map<number, FoldSums>> {
   const rows = await engine.rows<FoldSums & { name: string; fold: number }>(
     `SELECT name, fold::INTEGER AS fold, sum(rows)::DOUBLE AS rows, sum(n_y)::DOUBLE AS n_y, sum(sum_y) AS sum_y, sum(sum_y2) AS sum_y2
-     FROM ${MERGED} GROUP BY name, fold`, "adding up the level tables by fold");
+     FROM ${MERGED} GROUP BY name, fold ORDER BY fold, name`, "adding up the level tables by fold");
   const byName = new Map<string, Map<number, FoldSums>>(names.map((n) => [n, new Map()]));
   const folds = new Set<number>();
   for (const r of rows) { byName.get(r.name)?.set(r.fold, r); folds.add(r.fold); }
