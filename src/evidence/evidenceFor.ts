@@ -65,6 +65,8 @@ export async function evidenceFor(
       continue;
     }
     const candidates = built.filter((c): c is EvidenceCandidate => c !== null);
+    // an identifier with no level reaching minLevelRows has nothing to pool: no comparison to show
+    if (candidates.length < 2 && column.role === "identifier") continue;
     const oneSe = chooseByOneSeRule({ candidates, metric });
     const choice = oneSe && applyMargin(oneSe, { candidates, metric }, policy.minGain);
     if (!choice) continue;
