@@ -15,6 +15,7 @@ import { scanLevels } from "../../src/commands/levels.js";
 import { writeReportFolder } from "../../src/commands/scanCli.js";
 import { withEngine } from "../../src/engine/db.js";
 import { renderDecisionRecord } from "../../src/render/markdown.js";
+import { validateProfile } from "../../src/profile/schema.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
 import type { ColumnProfile, Profile } from "../../src/profile/types.js";
 import { mulberry32, tempDir, writeFile } from "../helpers/tmp.js";
@@ -70,6 +71,7 @@ describe("identifier-like columns are decided by out-of-fold evidence", () => {
     expect(rec.reasons.join(" ")).toContain(`saves ${(100 * gain).toPrecision(2)} % of the overall mean's out-of-fold log loss`);
     expect(rec.reasons.join(" ")).toContain("above the practical margin of 0.10 % (--min-gain 0.001)");
 
+    expect(() => validateProfile(JSON.parse(JSON.stringify(p)))).not.toThrow(); // the published schema
     // the decision record says it in plain words
     expect(renderDecisionRecord(p)).toMatch(/pooled: levels with \S{1,4} 30 rows share \S{1,8}other\S{1,8}; 3 levels kept/); // markdown-escaped
 
