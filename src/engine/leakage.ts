@@ -6,8 +6,11 @@
  * folds, shrunk toward the other folds' overall mean with weight m. Missing levels take the
  * prior (the same fallback the encoder uses). Grouping rows by encoded value gives, per column,
  * (score, positives, negatives); the Mann–Whitney U statistic (ties count one half) is summed
- * over the sorted distinct scores with a running count of negatives below. For continuous
- * targets the squared error Σ(y − e)² = Σ(sum_y2 − 2·e·sum_y + n·e²) is summed the same way.
+ * over the sorted distinct scores with a running count of negatives below (engine/formulaSql,
+ * mirroring stats/aucFromGroups mannWhitneyU). For continuous targets the squared error
+ * Σ(y − e)² = Σ(sum_y2 − 2·e·sum_y + n·e²) is summed the same way (as stats/rSquaredFromGroups).
+ * The sums stay in SQL (groups are sized by the level table); the AUC and R² are computed from
+ * them by stats/aucFromGroups aucFromU and stats/rSquaredFromGroups rSquaredFromSums (profile/targetFigures leakageMetric).
  */
 import type { TargetKind } from "./target.js";
 import type { Engine } from "./db.js";

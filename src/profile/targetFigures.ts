@@ -9,6 +9,8 @@ import { meanInterval } from "../stats/meanInterval.js";
 import { mEstimate } from "../stats/mEstimate.js";
 import { normalNormalPriorWeight } from "../stats/normalNormalPriorWeight.js";
 import { wilsonInterval } from "../stats/wilsonInterval.js";
+import { aucFromU } from "../stats/aucFromGroups.js";
+import { rSquaredFromSums } from "../stats/rSquaredFromGroups.js";
 import type { IntervalGroup, LevelRow, TargetColumnSums } from "../engine/levels.js";
 import type { LeakageSums } from "../engine/leakage.js";
 import type { ColumnTargetFigures, LevelFigure, PriorWeight, TargetKind } from "./types.js";
@@ -74,14 +76,10 @@ export function countFlags(kind: TargetKind, groups: readonly IntervalGroup[], o
   return { flagged, tested };
 }
 
-/** AUC = U / (P·N) (Mann–Whitney; ties ½), or R² = 1 − SSE/SST. Null when undefined. */
+/** AUC = U / (P·N) (stats/aucFromGroups aucFromU), or R² = 1 − SSE/SST (stats/rSquaredFromSums). Null when undefined. */
 export function leakageMetric(kind: TargetKind, sums: LeakageSums | undefined, sst: number): number | null {
   if (!sums) return null;
-  if (kind === "binary") {
-    const pairs = sums.positives * sums.negatives;
-    return pairs > 0 ? sums.u / pairs : null;
-  }
-  return sst > 0 ? 1 - sums.sse / sst : null;
+  return kind === "binary" ? aucFromU(sums) : rSquaredFromSums(sums.sse, sst);
 }
 
 export function targetFigures(

@@ -10,6 +10,7 @@ import { scanLevels } from "../../src/commands/levels.js";
 import { levelSql } from "../../src/commands/sql.js";
 import { withEngine } from "../../src/engine/db.js";
 import { tempDir } from "../helpers/tmp.js";
+import { expectCliError } from "../helpers/cliError.js";
 import { cli, writeLevels } from "./helpers.js";
 
 const dir = tempDir("levels-sql");
@@ -58,20 +59,16 @@ describe("tailsift sql prints portable SQL", () => {
   });
 
   it("refuses options it cannot honour (exit 2)", async () => {
-    const cases: [string[], RegExp][] = [
-      [["--columns", "a", "--from", "t", "--target", "y"], /--target-kind/],
-      [["--columns", "a", "--from", "t", "--folds", "5"], /--folds needs --fold-expr/],
-      [["--columns", "a", "--from", "t", "--fold-expr", "x", "--folds", "1"], /--folds must be an integer from 2/],
-      [["--columns", "a,y", "--from", "t", "--target", "y", "--positive", "1"], /includes the target/],
-      [["--columns", "a", "--from", "db..t"], /empty name part/],
-      [["--columns", "a", "--from", "t", "--target", "y", "--target-kind", "continuous", "--positive", "1"], /--positive applies to binary/],
+    const cases: [string[], string, RegExp][] = [
+      [["--columns", "a", "--from", "t", "--target", "y"], "bad_option", /--target-kind/],
+      [["--columns", "a", "--from", "t", "--folds", "5"], "bad_option", /--folds needs --fold-expr/],
+      [["--columns", "a", "--from", "t", "--fold-expr", "x", "--folds", "1"], "bad_option", /--folds must be an integer from 2/],
+      [["--columns", "a,y", "--from", "t", "--target", "y", "--positive", "1"], "bad_option", /includes the target/],
+      [["--columns", "a", "--from", "db..t"], "bad_option", /empty name part/],
+      [["--columns", "a", "--from", "t", "--target", "y", "--target-kind", "continuous", "--positive", "1"], "bad_option", /--positive applies to binary/],
     ];
-    for (const [args, message] of cases) {
-      const r = await cli(["sql", ...args]);
-      expect(r.code, args.join(" ")).toBe(2);
-      expect(r.err).toMatch(message);
-    }
-    expect((await cli(["sql", "--from", "t"])).code).toBe(2); // --columns is required
+    for (const [args, code, message] of cases) await expectCliError(["sql", ...args], code, message);
+    await expectCliError(["sql", "--from", "t"], "commander.missingMandatoryOptionValue", /required option '--columns/); // --columns is required
   });
 });
 

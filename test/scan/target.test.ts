@@ -38,7 +38,7 @@ describe("level rates and Wilson intervals", () => {
     const [a, b] = col(p, "grp").topLevels;
     // Newcombe (1998), Statistics in Medicine 17:857–872, method 3 (Wilson): 0.2553–0.3662 and 0.0624–0.1605
     expect(a?.targetMean).toBeCloseTo(81 / 263, 12);
-    expect(a?.low).toBeCloseTo(0.255289, 6); // recomputed to six places (CHECKS.md)
+    expect(a?.low).toBeCloseTo(0.255289, 6); // recomputed to six places (docs/references.md "Wilson score interval")
     expect(a?.high).toBeCloseTo(0.36621, 5);
     expect(b?.low).toBeCloseTo(0.062386, 6);
     expect(b?.high).toBeCloseTo(0.160487, 6);
@@ -56,13 +56,13 @@ describe("prior weight m fitted from the level table", () => {
     const p = await scan([file], { target: "y", columns: ["grp"] });
     const prior = col(p, "grp").target?.prior;
     expect(prior?.mean).toBeCloseTo(215 / 810, 12);
-    // CHECKS.md (recomputed): S = 3.709877, rho = 0.0027101, m = 368.0 with the (k − 1) moment form
+    // docs/references.md "Shrinkage of level means" (recomputed): S = 3.709877, rho = 0.0027101, m = 368.0 with the (k − 1) moment form
     expect(prior?.rho).toBeCloseTo(0.0027101, 6);
     expect(prior?.weight).toBeCloseTo(368.0, 0);
   });
 
   it("rat tumour data (Gelman et al., BDA3 ch. 5, from Tarone 1982): m = 21.64", async () => {
-    // published data set, 70 historical experiments (CHECKS.md)
+    // published data set, 70 historical experiments (docs/references.md "Shrinkage of level means")
     const y = [...Array(14).fill(0), ...Array(8).fill(1), ...Array(9).fill(2), 1, 5, 2, 5, 3, 2, 7, 7, 3, 3, 2, 9, 10,
       ...Array(7).fill(4), 10, 4, 4, 4, 5, 11, 12, 5, 5, 6, 5, 6, 6, 6, 6, 16, 15, 15, 9];
     const n = [...Array(7).fill(20), ...Array(4).fill(19), 18, 18, 17, 20, 20, 20, 20, 19, 19, 18, 18, 25, 24, 23,
@@ -75,7 +75,7 @@ describe("prior weight m fitted from the level table", () => {
     const file = trialsCsv("rats.csv", y.map((yi, i) => [`e${String(i).padStart(2, "0")}`, yi, n[i]!]));
     const p = await scan([file], { target: "y", columns: ["grp"] });
     const prior = col(p, "grp").target?.prior;
-    // CHECKS.md (recomputed): p̂ = 0.152464, rho = 0.044166, m = 21.64
+    // docs/references.md "Shrinkage of level means" (recomputed): p̂ = 0.152464, rho = 0.044166, m = 21.64
     expect(prior?.mean).toBeCloseTo(0.152464, 6);
     expect(prior?.rho).toBeCloseTo(0.044166, 6);
     expect(prior?.weight).toBeCloseTo(21.64, 2);
