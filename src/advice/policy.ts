@@ -16,6 +16,11 @@ export interface AdvicePolicy {
   /** K of the out-of-fold figures and of target-kfold (checked by engine/folds). */
   folds: number;
   seed: number;
+  /**
+   * Practical margin: a candidate must beat the overall mean by at least this share of its
+   * out-of-fold loss (log loss or squared error), besides the one-standard-error rule.
+   */
+  minGain: number;
 }
 
 export const DEFAULT_POLICY: AdvicePolicy = {
@@ -27,6 +32,7 @@ export const DEFAULT_POLICY: AdvicePolicy = {
   hashMaxBits: 24,
   folds: DEFAULT_FOLD_COUNT,
   seed: DEFAULT_FOLD_SEED,
+  minGain: 0.001,
 };
 
 /** The hash widths considered, smallest first. */

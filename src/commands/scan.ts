@@ -55,6 +55,7 @@ export function validatePolicy(p: AdvicePolicy): void {
   if (!(p.minLevelRows >= 1)) bad(`--min-level-rows must be at least 1 (got ${p.minLevelRows})`);
   if (!(p.coverage > 0 && p.coverage <= 1)) bad(`--coverage must be in (0, 1] (got ${p.coverage})`);
   if (!(p.collisionBudget >= 0 && p.collisionBudget < 1)) bad(`--collision-budget must be in [0, 1) (got ${p.collisionBudget})`);
+  if (!(p.minGain >= 0 && p.minGain < 1)) bad(`--min-gain must be in [0, 1) (got ${p.minGain})`);
 }
 
 export async function scan(inputs: readonly string[], options: ScanOptions = {}): Promise<Profile> {

@@ -20,6 +20,7 @@ export interface ScanCliOptions {
   target?: string; positive?: string; targetKind?: "binary" | "continuous";
   columns?: string[]; exclude?: string[]; asCategorical?: string[];
   folds: number; seed: number; top: number; maxOneHot: number; minLevelRows: number; coverage: number; collisionBudget: number;
+  minGain?: number;
   decide?: Record<string, Encoding>;
   format: "table" | "json" | "markdown";
   out?: string;
@@ -57,7 +58,7 @@ async function scanAndWrite(inputs: string[], o: ScanCliOptions, io: IO, onEngin
   const measured = o.levels ? await scanLevels(inputs, { ...levelScanOptions(o, onEngine), levelTableOut: levelTemp }) : await scan(inputs, {
     target: o.target, positive: o.positive, targetKind: o.targetKind,
     columns: o.columns, exclude: o.exclude, asCategorical: o.asCategorical, top: o.top,
-    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget },
+    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget, ...(o.minGain !== undefined ? { minGain: o.minGain } : {}) },
     decide: o.decide, ...(o.foldBy !== undefined ? { foldBy: o.foldBy } : {}),
     memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
     skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter,
@@ -123,7 +124,7 @@ export function levelScanOptions(o: ScanCliOptions, onEngine: (e: Engine | null)
   if (refused.length > 0) throw new TailsiftError("bad_option", `${refused.join(", ")} do${refused.length === 1 ? "es" : ""} not apply to --levels: level tables are already counted`);
   return {
     target: o.target, positive: o.positive, targetKind: o.targetKind, columns: o.columns, exclude: o.exclude, top: o.top,
-    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget },
+    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget, ...(o.minGain !== undefined ? { minGain: o.minGain } : {}) },
     decide: o.decide, memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir, delimiter: o.delimiter,
     levelTableOut: o.out && !o.redact ? path.join(o.out, LEVEL_FILE_NAME) : undefined, onEngine,
   };

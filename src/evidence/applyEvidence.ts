@@ -1,14 +1,15 @@
 /**
  * evidence/applyEvidence: turns the evidence's choice into a recommendation (pure). The rules'
  * choice stands for user overrides, when the overall mean is chosen (nothing beats the column
- * unused by more than one standard error), and for identifier-like columns unless a hierarchy
- * candidate is chosen; in every case the comparison is added to the reasons.
+ * unused by more than one standard error and by the practical margin), and for identifier-like
+ * columns unless a grouped candidate (backoff, pooled target encoding, hierarchical) is chosen; in every case the comparison is added to the reasons.
  */
 import { cautionsFor } from "../advice/cautions.js";
 import type { AdvicePolicy } from "../advice/policy.js";
 import { count, num, pct } from "../advice/words.js";
 import { describeParent } from "../hierarchy/parent.js";
 import type { ColumnProfile, PriorWeight, Recommendation } from "../profile/types.js";
+import { gainText, relativeGain } from "./margin.js";
 import { fmt, label } from "./oneSe.js";
 import type { Evidence, EvidenceCandidate } from "./types.js";
 
@@ -23,6 +24,9 @@ function headline(c: EvidenceCandidate, folds: number): string {
     case "target-kfold": return `Target encoding, ${folds}-fold out-of-fold, prior weight m = ${weightText(c.params.weight)}.`;
     case "backoff-target-kfold": {
       const p = c.params;
+      if (p.parents.length === 0) {
+        return `Pooled target encoding (${folds}-fold out-of-fold): the ${count(p.groups)} levels with at least ${count(p.minRows)} rows (${pct(p.coverage)} of non-missing rows) keep their own mean, every rarer level shares "other"; means smoothed with m = ${weightText(p.weight)}. Which levels are pooled is decided from the row counts of all folds (not from the target).`;
+      }
       return `Backoff grouping, then target encoding (${folds}-fold out-of-fold): a level with at least ${count(p.minRows)} rows keeps its own group, a rarer one backs off to its longest parent with that many rows (${p.parents.map(describeParent).join(", then ")}), the rest share "other" — ${count(p.groups)} groups covering ${pct(p.coverage)} of non-missing rows, group means smoothed with m = ${weightText(p.weight)}.`;
     }
     case "hierarchical-target-kfold": {
@@ -50,7 +54,7 @@ function asRecommendation(c: Exclude<EvidenceCandidate, { candidate: "overall-me
  * with the comparison added. The reasons describe the decision that results: when the rules'
  * answer stands, the evidence's own preference is not quoted as if it were the decision.
  */
-export function applyEvidence(column: ColumnProfile, evidence: Evidence, _policy: AdvicePolicy): Recommendation {
+export function applyEvidence(column: ColumnProfile, evidence: Evidence, policy: AdvicePolicy): Recommendation {
   const was = column.recommendation;
   if (was.overridden) return was;
   const chosen = evidence.candidates.find((c) => c.candidate === evidence.chosen);
@@ -58,8 +62,14 @@ export function applyEvidence(column: ColumnProfile, evidence: Evidence, _policy
   if (!chosen || chosen.candidate === "overall-mean") {
     const best = evidence.candidates.find((c) => c.candidate === evidence.best);
     const bestText = best && best.candidate !== "overall-mean" ? ` (the best, ${label(best.candidate)}, scores ${fmt(best.loss, 5)} ± ${fmt(best.se, 2)})` : "";
+    const overall = evidence.candidates.find((c) => c.candidate === "overall-mean");
+    if (overall && best && best !== overall && overall.loss > evidence.threshold) {
+      // the one-SE rule alone would have used the column: the practical margin decided
+      return { ...was, reasons: [...was.reasons, comparison, `Evidence: ${evidence.reason} So ${was.encoding} stands.`] };
+    }
+    const gain = overall && best && best !== overall ? `, and the best saves ${gainText(relativeGain(best, overall.loss))} of the overall mean's loss against a practical margin of ${gainText(policy.minGain)}` : "";
     return { ...was, reasons: [...was.reasons, comparison,
-      `Evidence: no candidate beats the overall mean by more than one standard error${bestText}, so the out-of-fold comparison gives no ground to change the rules' choice; ${was.encoding} stands.`] };
+      `Evidence: no candidate beats the overall mean by more than one standard error${bestText}${gain}, so the out-of-fold comparison gives no ground to change the rules' choice; ${was.encoding} stands.`] };
   }
   const hierarchical = chosen.candidate === "backoff-target-kfold" || chosen.candidate === "hierarchical-target-kfold";
   if (column.role === "identifier" && !hierarchical) {

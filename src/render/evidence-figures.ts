@@ -79,6 +79,10 @@ export function candidateParamsText(c: EvidenceCandidate): string {
     case "target-kfold": return `m = ${weightText(c.params.weight)}`;
     case "backoff-target-kfold": {
       const p = c.params;
+      // no parents: the pooled target encoding of an identifier-like column
+      if (Array.isArray(p.parents) && p.parents.length === 0) {
+        return `pooled: levels with < ${countText(p.minRows)} rows share "other"; ${countText(p.groups)} levels kept; m = ${weightText(p.weight)}`;
+      }
       return `parents ${parentChainText(Array.isArray(p.parents) ? p.parents : [])}; ≥ ${countText(p.minRows)} rows; `
         + `${countText(p.groups)} groups; m = ${weightText(p.weight)}`;
     }
