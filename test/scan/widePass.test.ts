@@ -14,6 +14,7 @@ import { openSource } from "../../src/engine/source.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
 import type { TargetSpec } from "../../src/engine/target.js";
 import { useWidePass, WIDE_PASS_MIN_COLUMNS } from "../../src/engine/widePass.js";
+import { sampleColumns } from "../../src/engine/inspect.js";
 import { mulberry32, tempDir, writeFile } from "../helpers/tmp.js";
 
 const dir = tempDir("widepass");
@@ -132,5 +133,22 @@ describe("the wide pass builds the same level table as the GROUPING SETS pass", 
     } finally {
       if (before !== undefined) process.env.TAILSIFT_PASS = before;
     }
+  });
+});
+
+describe("the wide sample (one unnested query) counts what the batched sample counts", () => {
+  it("250 columns: the same non-missing, number-like and distinct counts as batches of 125 columns", async () => {
+    const { file, levelColumns, countColumns } = shapeCsv({ name: "sample", levelCols: 240, numericCols: 10, rows: 300, target: "binary", folds: 5, seed: 9 });
+    const columns = [...levelColumns, ...countColumns];
+    await withEngine({ threads: 1 }, async (engine) => {
+      const source = await openSource(engine, [file]);
+      const wide = await sampleColumns(engine, source.view, columns);
+      const batched = [...await sampleColumns(engine, source.view, columns.slice(0, 125)), ...await sampleColumns(engine, source.view, columns.slice(125))];
+      expect(wide).toEqual(batched);
+      // brute force for the non-missing counts (empty fields are missing)
+      const raw = fs.readFileSync(file, "utf8").trimEnd().split("\n").slice(1).map((l) => l.replace(/"c,d"/g, "cd").split(","));
+      expect(wide.map((w) => w.nonMissing)).toEqual(columns.map((_, j) => raw.filter((r) => r[j] !== "").length));
+      expect(wide.filter((w) => w.numberLike === w.nonMissing && w.distinct > 20).map((w) => w.name)).toEqual(countColumns);
+    });
   });
 });
