@@ -1,7 +1,8 @@
 /**
  * engine/wideSample: the first-rows sample of engine/inspect for wide inputs in ONE query. The
  * sampled rows are unnested into (col, value) — as in the wide pass — and counted per column, so a
- * wide CSV is read (and sniffed) once instead of once per batch of 200 columns. The counts are the
+ * wide CSV is read (and sniffed) once instead of once per batch of 200 columns; values are first
+ * grouped per (col, value), so the number pattern is matched once per distinct value. The counts are the
  * ones inspect's batched query takes over the same LIMIT subquery: non-missing values, values that
  * match the number pattern and distinct values.
  */
@@ -18,10 +19,12 @@ export async function sampleCountsUnnested(
   const cols = columns.map((_, i) => sqlNumber(i)).join(", ");
   const values = columns.map(quoteIdent).join(", ");
   const rows = await engine.rows<{ col: number; n: number; k: number; d: number }>(
-    `SELECT col, count(v)::DOUBLE AS n, count(*) FILTER (WHERE regexp_full_match(v, ${quoteLiteral(numberPattern)}))::DOUBLE AS k,
-            count(DISTINCT v)::DOUBLE AS d
-     FROM (SELECT unnest([${cols}])::INTEGER AS col, unnest([${values}]::VARCHAR[]) AS v
-           FROM (SELECT * FROM ${view} LIMIT ${sqlNumber(sampleRows)}))
+    `SELECT col, coalesce(sum(c) FILTER (WHERE v IS NOT NULL), 0)::DOUBLE AS n,
+            coalesce(sum(c) FILTER (WHERE regexp_full_match(v, ${quoteLiteral(numberPattern)})), 0)::DOUBLE AS k, count(v)::DOUBLE AS d
+     FROM (SELECT col, v, count(*) AS c
+           FROM (SELECT unnest([${cols}])::INTEGER AS col, unnest([${values}]::VARCHAR[]) AS v
+                 FROM (SELECT * FROM ${view} LIMIT ${sqlNumber(sampleRows)}))
+           GROUP BY col, v)
      GROUP BY col`, "sampling the first rows");
   for (const r of rows) {
     const o = out[r.col];
