@@ -18,10 +18,12 @@ import { quoteIdent, sqlNumber } from "./sql.js";
 import { targetSql } from "./target.js";
 
 /**
- * The wide pass is used from this many measured columns on. Measured with
- * bench/wide-crossover.mjs (bench/README.md, "Wide inputs"): at 10k–100k rows the unnest pass is
- * as fast as GROUPING SETS from about 30 columns and several times faster past 100, at a fraction
- * of the memory; below that GROUPING SETS is as fast or faster and stays the long-file pass.
+ * The wide pass is used from this many measured columns on. Measured with bench/wide-crossover.mjs
+ * (the pass alone, GROUPING SETS time / wide time; bench/README.md "Wide inputs"): 10k rows 1.54×
+ * at 20 columns, 2.56× at 200, 3.84× at 400; 100k rows 1.02× at 20, 1.20× at 200; 1M rows 0.83×
+ * at 20 and 0.71× at 60 (GROUPING SETS is faster on long files). The row count is not known
+ * before the pass, so the choice is by columns: from 200 on, where GROUPING SETS needed batches
+ * (one read of the input each) and its memory grows faster than the number of sets.
  */
 export const WIDE_PASS_MIN_COLUMNS = 200;
 
