@@ -11,6 +11,7 @@ import { foldSql, type FoldContract } from "./folds.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
 import type { TargetSpec } from "./target.js";
 import { targetSql } from "./target.js";
+import { buildWideLevelTable, useWidePass } from "./widePass.js";
 
 export const LEVEL_TABLE = "tailsift_levels";
 
@@ -69,6 +70,13 @@ export const PASS_BATCH = 200;
 
 /** Runs the pass and returns the totals; the level table stays in DuckDB. */
 export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "scanning the input"): Promise<PassTotals> {
+  // wide inputs: one unnest pass (engine/widePass) builds the same table; totals are read below
+  if (useWidePass(plan)) await buildWideLevelTable(engine, plan, doing);
+  else await buildGroupingSetsLevelTable(engine, plan, doing);
+  return readPassTotals(engine, plan);
+}
+
+async function buildGroupingSetsLevelTable(engine: Engine, plan: PassPlan, doing: string): Promise<void> {
   const first = plan.levelColumns.slice(0, PASS_BATCH);
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TABLE} AS ${levelPassSql({ ...plan, levelColumns: first })}`, doing);
   for (let offset = PASS_BATCH; offset < plan.levelColumns.length; offset += PASS_BATCH) {
@@ -78,6 +86,9 @@ export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "s
       `INSERT INTO ${LEVEL_TABLE} BY NAME SELECT col + ${sqlNumber(offset)} AS col, level, fold, rows, n_y, sum_y, sum_y2, bad FROM (${sql}) WHERE col >= 0`,
       `${doing} (columns ${offset + 1}–${offset + batch.length})`);
   }
+}
+
+async function readPassTotals(engine: Engine, plan: PassPlan): Promise<PassTotals> {
   const counts = plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("");
   const rows = await engine.rows<Record<string, number>>(
     `SELECT fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, bad::DOUBLE AS bad${counts}
