@@ -27,7 +27,7 @@ export function addSqlCommand(program: Command, io: CliIO): void {
     .addOption(new Option("--target-kind <kind>", "how y is made: binary (1 = 1/1.0/true/t/yes/y, 0 = 0/0.0/false/f/no/n, else missing) or continuous (CAST AS DOUBLE); needed with --target unless --positive is given").choices(["binary", "continuous"]))
     .option("--fold-expr <sql>", "SQL expression giving each row's fold (e.g. a hash of a row key modulo K); without it every row is fold 0 and scan --levels cannot compute out-of-fold figures")
     .option("--folds <k>", "wrap the fold expression as MOD(ABS(expr), K)", integer("--folds"))
-    .addOption(new Option("--dialect <name>", "identifier and string quoting: ansi (DuckDB, Trino, PostgreSQL) or spark (backticks, STRING)").choices(["ansi", "spark"]).default("ansi"))
+    .addOption(new Option("--dialect <name>", "how the SQL is spelled: ansi (DuckDB, PostgreSQL, Trino), spark (backticks, STRING) or clickhouse (modulo, toFloat64, Nullable(String); no CTE)").choices(["ansi", "spark", "clickhouse"]).default("ansi"))
     .option("--debug", "print the stack trace of an error")
     .action((opts: SqlCliOptions) => {
       const sql = levelSql({
