@@ -27,6 +27,7 @@ export interface Dialect {
   /** A DOUBLE constant, written so that it parses back to the same binary64 value. */
   double(value: number): string;
   mod(a: string, b: string): string;
+  abs(expr: string): string;
   trim(expr: string): string;
   lower(expr: string): string;
   concat(a: string, b: string): string;
@@ -62,6 +63,7 @@ export const ANSI: Dialect = {
   toInteger: (e) => `CAST(${e} AS INTEGER)`,
   double: (v) => `CAST(${doubleText(v)} AS DOUBLE PRECISION)`,
   mod: (a, b) => `MOD(${a}, ${b})`,
+  abs: (e) => `ABS(${e})`,
   trim: (e) => `TRIM(${e})`,
   lower: (e) => `LOWER(${e})`,
   concat: (a, b) => `(${a} || ${b})`,
@@ -80,6 +82,7 @@ export const SPARK: Dialect = {
   toInteger: (e) => `CAST(${e} AS INTEGER)`,
   double: (v) => `CAST(${doubleText(v)} AS DOUBLE)`,
   mod: (a, b) => `MOD(${a}, ${b})`,
+  abs: (e) => `ABS(${e})`,
   trim: (e) => `TRIM(${e})`,
   lower: (e) => `LOWER(${e})`,
   concat: (a, b) => `CONCAT(${a}, ${b})`,
@@ -96,6 +99,7 @@ export const CLICKHOUSE: Dialect = {
   toInteger: (e) => `toInt32(${e})`,
   double: (v) => `toFloat64(${doubleText(v)})`,
   mod: (a, b) => `modulo(${a}, ${b})`,
+  abs: (e) => `abs(${e})`,
   trim: (e) => `replaceRegexpAll(${e}, '^ +| +$', '')`,
   lower: (e) => `lower(${e})`,
   concat: (a, b) => `concat(${a}, ${b})`,

@@ -65,7 +65,7 @@ function foldExpr(o: LevelSqlOptions, d: Dialect): string {
   if (o.foldExpr.trim() === "") throw bad("--fold-expr is empty");
   if (o.folds === undefined) return d.toInteger(`(${o.foldExpr})`);
   if (!Number.isInteger(o.folds) || o.folds < 2 || o.folds > 100) throw bad(`--folds must be an integer from 2 to 100 (got ${o.folds})`);
-  return d.toInteger(d.mod(`ABS(${o.foldExpr})`, sqlNumber(o.folds)));
+  return d.toInteger(d.mod(d.abs(o.foldExpr), sqlNumber(o.folds)));
 }
 
 function yExpr(o: LevelSqlOptions, d: Dialect): string {

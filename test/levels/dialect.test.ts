@@ -29,7 +29,7 @@ describe("levelSql dialects", () => {
   it("clickhouse (18.16) uses modulo, replaceRegexpAll, toFloat64 and Nullable(String), no CTE, MOD or TRIM", () => {
     const sql = levelSql({ columns: ["clinic"], from: "vet.visits", target: "no_show", targetKind: "binary", foldExpr: "row_id", folds: 5, dialect: "clickhouse" });
     expect(sql).not.toMatch(/\bWITH\b|\bMOD\(|\bTRIM\(|AS DOUBLE/);
-    expect(sql).toContain("toInt32(modulo(ABS(row_id), 5))");
+    expect(sql).toContain("toInt32(modulo(abs(row_id), 5))");
     expect(sql).toContain("CAST(\"clinic\" AS Nullable(String))");
     expect(sql).toContain("replaceRegexpAll(CAST(\"no_show\" AS Nullable(String)), '^ +| +$', '')");
     expect(sql).toContain("toFloat64(1)");
