@@ -37,19 +37,19 @@ export async function jsonLinesTable(engine: Engine, file: string, table: string
 export const LEVEL_TYPES = { column: "VARCHAR", level: "VARCHAR", fold: "INTEGER", rows: "BIGINT", n_y: "BIGINT", sum_y: "DOUBLE", sum_y2: "DOUBLE" };
 
 /** Row-for-row equality of two result sets keyed by row_id; numbers to 1e-12 (relative above 1). */
-export function expectSameRows(actual: Record<string, unknown>[], expected: Record<string, unknown>[], columns: readonly string[]): void {
+export function expectSameRows(actual: Record<string, unknown>[], expected: Record<string, unknown>[], columns: readonly string[], key = "row_id"): void {
   expect(actual.length).toBe(expected.length);
-  const byId = new Map(actual.map((r) => [String(r.row_id), r]));
+  const byId = new Map(actual.map((r) => [String(r[key]), r]));
   for (const e of expected) {
-    const a = byId.get(String(e.row_id));
-    expect(a, `row ${String(e.row_id)}`).toBeDefined();
+    const a = byId.get(String(e[key]));
+    expect(a, `row ${String(e[key])}`).toBeDefined();
     for (const c of columns) {
       const ev = e[c] ?? null;
       const av = a![c] ?? null;
-      const where = `row ${String(e.row_id)} column ${c}: ${String(av)} vs ${String(ev)}`;
+      const where = `row ${String(e[key])} column ${c}: ${String(av)} vs ${String(ev)}`;
       if (ev === null || av === null) { expect(av, where).toBe(ev); continue; }
       const en = Number(ev);
-      if (typeof ev !== "string" || (ev.trim() !== "" && Number.isFinite(en) && typeof av !== "string")) {
+      if (typeof ev === "number" || typeof ev === "bigint") {
         expect(Math.abs(Number(av) - en) <= 1e-12 * Math.max(1, Math.abs(en)), where).toBe(true);
       } else {
         expect(String(av), where).toBe(ev);
