@@ -8,7 +8,9 @@
  *    TRIM (replaceRegexpAll), Float64 casts, Nullable(String) so NULL levels survive the cast,
  *    substringUTF8 (substring counts bytes), MD5() as 16 raw bytes read by reinterpretAsUInt64
  *    (the first 8 bytes, little-endian — exactly engine/hashing's bucket integer), and at most one
- *    JOIN per SELECT, so mapping lookups are scalar subqueries over arrays.
+ *    JOIN per SELECT, so mapping lookups are scalar subqueries over arrays; over a Distributed
+ *    table such expressions fail ("Not found column"), so the scoring query reads the rows in a
+ *    derived table and looks up on the initiator.
  */
 import { quoteIdent, quoteIdentBacktick, quoteLiteral, quoteLiteralBackslash, sqlNumber } from "../engine/sql.js";
 

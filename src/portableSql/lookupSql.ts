@@ -3,8 +3,9 @@
  *  - inlined (at most `inlineMax` rows): a searched CASE over the keys (every engine has it);
  *  - a table loaded by the user, (level, value): in ansi and spark a correlated scalar subquery
  *    `(SELECT MAX(value) FROM t WHERE level = key)` (Spark wants correlated scalar subqueries
- *    aggregated); in clickhouse 18.16 — at most one JOIN per SELECT — the table as two aligned
- *    arrays (one scalar subquery, ordered by level) and indexOf.
+ *    aggregated); in clickhouse 18.16 — at most one JOIN per SELECT — the table as two arrays
+ *    (scalar subqueries, both ordered by the unique level, so aligned) and indexOf; a tuple of
+ *    both arrays fails on 18.16 once the initiator forwards the query to the shards.
  * A key found nowhere (or NULL) gives NULL; the caller applies the fallback.
  */
 import { sqlNumber } from "../engine/sql.js";
@@ -29,8 +30,10 @@ export function lookupSql(d: Dialect, t: LookupTable, key: string): string {
   const table = d.ident(t.name);
   const [level, value] = [d.ident("level"), d.ident("value")];
   if (d.name !== "clickhouse") return `(SELECT MAX(m.${value}) FROM ${table} AS m WHERE m.${level} = ${key})`;
-  const arrays = `(SELECT groupArray(${level}), groupArray(${value}) FROM (SELECT ${level}, ${value} FROM ${table} ORDER BY ${level}))`;
-  const index = `indexOf(tupleElement(${arrays}, 1), assumeNotNull(${key}))`;
+  const sorted = `(SELECT ${level}, ${value} FROM ${table} ORDER BY ${level})`;
+  const keys = `(SELECT groupArray(${level}) FROM ${sorted})`;
+  const values = `(SELECT groupArray(${value}) FROM ${sorted})`;
+  const index = `indexOf(${keys}, assumeNotNull(${key}))`;
   const cast = t.integer ? "toInt64" : "toFloat64";
-  return `if(${key} IS NULL OR ${index} = 0, ${typedNull(d, t.integer)}, ${cast}(arrayElement(tupleElement(${arrays}, 2), ${index})))`;
+  return `if(${key} IS NULL OR ${index} = 0, ${typedNull(d, t.integer)}, ${cast}(arrayElement(${values}, ${index})))`;
 }

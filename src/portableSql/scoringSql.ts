@@ -95,5 +95,8 @@ export function scoringSql(items: readonly ScoringItem[], o: ScoringSqlOptions):
     ...load.map((t) => `--   ${t.name}: ${t.rows.length} rows, '${t.column}' ${t.role}, from ${t.name}.csv (--mappings-out)`),
   ];
   const select = exprs.map((e, k) => `${e} AS ${d.ident(names[k]!)}`).join(",\n  ");
-  return { sql: `${header.join("\n")}\nSELECT\n  ${select}\nFROM ${qualifiedName(o.from, d)} AS s\n`, tables: load };
+    // ClickHouse 18.16 over a Distributed table loses track of expressions holding scalar
+  // subqueries ("Not found column"): read the rows in a derived table, look up on the initiator
+  const from = d.name === "clickhouse" ? `(SELECT * FROM ${qualifiedName(o.from, d)})` : qualifiedName(o.from, d);
+  return { sql: `${header.join("\n")}\nSELECT\n  ${select}\nFROM ${from} AS s\n`, tables: load };
 }

@@ -92,4 +92,15 @@ describe("scoring SQL in DuckDB equals encode --for scoring", () => {
     expect(r.err).toMatch(/more than --inline-max 3; give --mappings-out/);
     expect(r.err.trim().split("\n").length).toBe(1);
   });
+
+  it("spark spells the same query with backticks, STRING, DOUBLE and CONV over md5 hex (quoting only: no Spark here)", async () => {
+    const r = await cli(["sql", "--plan", at("plan"), "--from", "lake.vet.later", "--dialect", "spark", "--inline-max", "32", "--mappings-out", at("spark-maps")]);
+    expect(r.code, r.err).toBe(0);
+    const body = r.out.replace(/^--.*\n/gm, "");
+    expect(body).not.toContain('"');
+    expect(body).toContain("FROM `lake`.`vet`.`later` AS s");
+    expect(body).toContain("CAST(CONV(SUBSTRING(MD5(CONCAT('clinic-', CAST(s.`clinic` AS STRING))), 15, 2), 16, 10) AS BIGINT)");
+    expect(body).toContain("'it\\'s an emergency'");
+    expect(body).not.toMatch(/VARCHAR|DOUBLE PRECISION/);
+  });
 });
