@@ -4,7 +4,7 @@
  *  - a table loaded by the user, (level, value): in ansi and spark a correlated scalar subquery
  *    `(SELECT MAX(value) FROM t WHERE level = key)` (Spark wants correlated scalar subqueries
  *    aggregated); in clickhouse 18.16 — at most one JOIN per SELECT — the table as two arrays
- *    (scalar subqueries, both ordered by the unique level, so aligned) and indexOf; a tuple of
+ *    (scalar subqueries, both ordered by the unique level, so aligned) and transform(); a tuple of
  *    both arrays fails on 18.16 once the initiator forwards the query to the shards.
  * A key found nowhere (or NULL) gives NULL; the caller applies the fallback.
  */
@@ -32,8 +32,10 @@ export function lookupSql(d: Dialect, t: LookupTable, key: string): string {
   if (d.name !== "clickhouse") return `(SELECT MAX(m.${value}) FROM ${table} AS m WHERE m.${level} = ${key})`;
   const sorted = `(SELECT ${level}, ${value} FROM ${table} ORDER BY ${level})`;
   const keys = `(SELECT groupArray(${level}) FROM ${sorted})`;
-  const values = `(SELECT groupArray(${value}) FROM ${sorted})`;
-  const index = `indexOf(${keys}, assumeNotNull(${key}))`;
   const cast = t.integer ? "toInt64" : "toFloat64";
-  return `if(${key} IS NULL OR ${index} = 0, ${typedNull(d, t.integer)}, ${cast}(arrayElement(${values}, ${index})))`;
+  const values = `(SELECT groupArray(toFloat64(${value})) FROM ${sorted})`;
+  // transform() looks up in a hash table (indexOf scans the array: 44.5 s instead of 2.7 s on the sample, measured);
+  // NaN marks "absent" (mapped values are finite)
+  const found = `transform(assumeNotNull(${key}), ${keys}, ${values}, nan)`;
+  return `if(${key} IS NULL OR isNaN(${found}), ${typedNull(d, t.integer)}, ${cast}(${found}))`;
 }
