@@ -6,24 +6,37 @@ import { type Command, Option } from "commander";
 import { integer, list } from "./commonOptions.js";
 import type { CliIO } from "./io.js";
 import { levelSql, type LevelSqlOptions } from "./sql.js";
+import { scoringQuery } from "../portableSql/scoringCommand.js";
+import { TailsiftError } from "../errors.js";
 
 /** The command's options: the query options, with --columns optional until checked. */
-type SqlCliOptions = Omit<LevelSqlOptions, "columns"> & { columns?: string[] };
+type SqlCliOptions = Omit<LevelSqlOptions, "columns"> & { columns?: string[]; plan?: string; inlineMax?: number; mappingsOut?: string };
 
 /** Registers `tailsift sql` on the program. */
 export function addSqlCommand(program: Command, io: CliIO): void {
   program.command("sql")
-    .description("print the portable SQL that builds the level table (column, level, fold, rows, n_y, sum_y, sum_y2) in another engine; save its result as Parquet or CSV and run scan --levels on it")
-    .requiredOption("--columns <names>", "columns whose levels are counted (comma-separated, repeatable)", list)
+    .description("print the portable SQL that builds the level table (column, level, fold, rows, n_y, sum_y, sum_y2) in another engine; save its result as Parquet or CSV and run scan --levels on it. With --plan: the SQL that applies the plan's scoring encodings to a table, as encode --for scoring does")
+    .option("--columns <names>", "columns whose levels are counted (comma-separated, repeatable; needed without --plan)", list)
+    .option("--plan <dir>", "print the scoring SQL of this plan (profile.json + levels.parquet from scan --out) instead of the level-table SQL")
+    .option("--inline-max <n>", "with --plan: mappings of at most N rows are inlined in the SQL (default 64); larger ones are tables to load", integer("--inline-max"))
+    .option("--mappings-out <dir>", "with --plan: new folder for the CSV files (level,value) of the mapping tables that are not inlined")
     .requiredOption("--from <table>", "the table to read: TABLE or db.schema.table (each part is quoted)")
     .option("--target <column>", "target column (binary or continuous)")
     .option("--positive <value>", "the target value that counts as 1; any other non-blank value is 0 (binary)")
     .addOption(new Option("--target-kind <kind>", "how y is made: binary (1 = 1/1.0/true/t/yes/y, 0 = 0/0.0/false/f/no/n, else missing) or continuous (CAST AS DOUBLE); needed with --target unless --positive is given").choices(["binary", "continuous"]))
     .option("--fold-expr <sql>", "SQL expression giving each row's fold (e.g. a hash of a row key modulo K); without it every row is fold 0 and scan --levels cannot compute out-of-fold figures")
     .option("--folds <k>", "wrap the fold expression as MOD(ABS(expr), K)", integer("--folds"))
-    .addOption(new Option("--dialect <name>", "identifier and string quoting: ansi (DuckDB, Trino, PostgreSQL) or spark (backticks, STRING)").choices(["ansi", "spark"]).default("ansi"))
+    .addOption(new Option("--dialect <name>", "how the SQL is spelled: ansi (DuckDB, PostgreSQL, Trino), spark (backticks, STRING) or clickhouse (modulo, toFloat64, Nullable(String); no CTE)").choices(["ansi", "spark", "clickhouse"]).default("ansi"))
     .option("--debug", "print the stack trace of an error")
-    .action((opts: SqlCliOptions) => {
+    .action(async (opts: SqlCliOptions) => {
+      if (opts.plan !== undefined) {
+        const misplaced = [opts.columns ? "--columns" : "", opts.target ? "--target" : "", opts.positive ? "--positive" : "", opts.targetKind ? "--target-kind" : "", opts.foldExpr ? "--fold-expr" : "", opts.folds !== undefined ? "--folds" : ""].filter((x) => x);
+        if (misplaced.length > 0) throw new TailsiftError("bad_option", `${misplaced.join(", ")} do not apply with --plan: the plan says what is encoded`);
+        const { sql } = await scoringQuery({ plan: opts.plan, from: opts.from, dialect: opts.dialect, inlineMax: opts.inlineMax, mappingsOut: opts.mappingsOut });
+        io.stdout(`${sql.trimEnd()};\n`);
+        return;
+      }
+      if (opts.inlineMax !== undefined || opts.mappingsOut !== undefined) throw new TailsiftError("bad_option", "--inline-max and --mappings-out apply with --plan");
       const sql = levelSql({
         columns: opts.columns ?? [], from: opts.from, target: opts.target, positive: opts.positive,
         targetKind: opts.targetKind, foldExpr: opts.foldExpr, folds: opts.folds, dialect: opts.dialect,

@@ -13,7 +13,8 @@
  * (only the totals rows' __nn are ever read).
  */
 import type { Engine } from "./db.js";
-import { foldSql, LEVEL_TABLE, type PassPlan } from "./aggregate.js";
+import { LEVEL_TABLE, type PassPlan } from "./aggregate.js";
+import { foldSql } from "./folds.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
 import { targetSql } from "./target.js";
 
@@ -52,7 +53,7 @@ export function widePassSql(plan: PassPlan): string {
   return `SELECT col, level, __fold AS fold, count(*)::BIGINT AS rows, count(__y)::BIGINT AS n_y,
   coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${y2} AS sum_y2, count(*) FILTER (WHERE __bad)::BIGINT AS bad
 FROM (SELECT __fold, __y, __bad, unnest([${cols.join(", ")}])::INTEGER AS col, unnest(__vals) AS level
-      FROM (SELECT ${foldSql(plan.identityColumns, plan.seed, plan.folds)} AS __fold, ${target.y} AS __y, ${target.bad} AS __bad,
+      FROM (SELECT ${foldSql(plan.fold)} AS __fold, ${target.y} AS __y, ${target.bad} AS __bad,
               [${values.join(", ")}]::VARCHAR[] AS __vals
             FROM ${plan.view}))
 GROUP BY col, level, __fold`;
