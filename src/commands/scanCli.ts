@@ -7,7 +7,9 @@ import path from "node:path";
 import type { Engine } from "../engine/db.js";
 import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
 import { TailsiftError } from "../errors.js";
+import { readProfile } from "../profile/readProfile.js";
 import { validateProfile } from "../profile/schema.js";
+export { readProfile };
 import type { Encoding, Profile } from "../profile/types.js";
 import { redactProfile } from "../profile/redact.js";
 import { renderDecisionRecord } from "../render/markdown.js";
@@ -89,22 +91,6 @@ export async function writeReportFolder(profile: Profile, dir: string): Promise<
   writeFileAtomic(path.join(dir, "report.html"), html);
 }
 
-/** Reads and validates a saved profile.json. */
-export function readProfile(file: string): Profile {
-  let text: string;
-  try {
-    text = fs.readFileSync(file, "utf8");
-  } catch {
-    throw new TailsiftError("input_not_found", `profile '${file}' not found; give the profile.json written by scan --out`);
-  }
-  let data: unknown;
-  try {
-    data = JSON.parse(text);
-  } catch {
-    throw new TailsiftError("bad_profile", `'${file}' is not JSON; give the profile.json written by scan --out`);
-  }
-  return validateProfile(data, file);
-}
 
 export async function runReport(profilePath: string, out: string, io: IO): Promise<void> {
   const profile = readProfile(profilePath);

@@ -7,24 +7,13 @@
  * of target values that did not fit the target kind and the non-missing count of numeric columns.
  */
 import type { Engine } from "./db.js";
-import { foldSql, type FoldContract } from "./folds.js";
+import { foldSql } from "./folds.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
-import type { TargetSpec } from "./target.js";
 import { targetSql } from "./target.js";
 import { buildWideLevelTable, useWidePass } from "./widePass.js";
 
-export const LEVEL_TABLE = "tailsift_levels";
-
-export interface PassPlan {
-  view: string;
-  /** Columns whose levels are counted. */
-  levelColumns: readonly string[];
-  /** Columns for which only the non-missing count is kept (numeric columns). */
-  countColumns: readonly string[];
-  target?: TargetSpec;
-  /** How each row gets its fold (engine/folds). */
-  fold: FoldContract;
-}
+export { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
+import { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
 
 export interface PassTotals {
   rows: number;

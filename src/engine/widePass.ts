@@ -13,7 +13,7 @@
  * (only the totals rows' __nn are ever read).
  */
 import type { Engine } from "./db.js";
-import { LEVEL_TABLE, type PassPlan } from "./aggregate.js";
+import { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
 import { foldSql } from "./folds.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
 import { targetSql } from "./target.js";

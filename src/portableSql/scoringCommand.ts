@@ -9,7 +9,7 @@ import path from "node:path";
 import { withEngine } from "../engine/db.js";
 import { locatePlan } from "../drift/planFiles.js";
 import { TailsiftError } from "../errors.js";
-import { readProfile } from "../commands/scanCli.js";
+import { readProfile } from "../profile/readProfile.js";
 import { dialectOf, type DialectName } from "./dialects.js";
 import { scoringItems } from "./planMaps.js";
 import { DEFAULT_INLINE_MAX, scoringSql, type MappingTable } from "./scoringSql.js";

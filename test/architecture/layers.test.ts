@@ -12,7 +12,7 @@ import { describe, expect, it } from "vitest";
 /** Lowest first. A layer is a folder of src/ or a single file at its root. */
 export const LAYERS: readonly string[] = [
   "errors.ts", "version.ts",
-  "stats", "engine", "profile", "advice", "hierarchy", "evidence", "pipeline", "render", "drift", "encode",
+  "stats", "engine", "profile", "advice", "hierarchy", "evidence", "pipeline", "render", "drift", "encode", "portableSql",
   "commands", "cli.ts", "index.ts",
 ];
 

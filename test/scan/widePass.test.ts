@@ -6,9 +6,10 @@
  * recount in JavaScript. Continuous targets are multiples of 0.25 so that every sum is exact in
  * binary floating point whatever the order of addition (the two passes add in different orders).
  */
+import { rowHashFolds, rowHashFoldSql } from "../../src/engine/folds.js";
 import fs from "node:fs";
 import { afterAll, describe, expect, it } from "vitest";
-import { buildLevelTable, foldSql, LEVEL_TABLE, type PassPlan, type PassTotals } from "../../src/engine/aggregate.js";
+import { buildLevelTable, LEVEL_TABLE, type PassPlan, type PassTotals } from "../../src/engine/aggregate.js";
 import { withEngine, type Engine } from "../../src/engine/db.js";
 import { openSource } from "../../src/engine/source.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
@@ -85,7 +86,7 @@ describe("the wide pass builds the same level table as the GROUPING SETS pass", 
     await withEngine({ threads: 2 }, async (engine) => {
       const source = await openSource(engine, [file]);
       const target: TargetSpec | undefined = shape.target ? { column: "y", kind: shape.target } : undefined;
-      const plan: PassPlan = { view: source.view, identityColumns: source.columns, levelColumns, countColumns, target, folds: shape.folds, seed: 42 };
+      const plan: PassPlan = { view: source.view, fold: rowHashFolds(source.columns, shape.folds, 42), levelColumns, countColumns, target };
       const grouping = await pass(engine, plan, "grouping");
       const wide = await pass(engine, plan, "wide");
       expect([grouping.wide, wide.wide]).toEqual([false, true]);
@@ -103,10 +104,10 @@ describe("the wide pass builds the same level table as the GROUPING SETS pass", 
     const { file, levelColumns, countColumns } = shapeCsv({ ...shape, name: "brute", levelCols: 25, rows: 250 });
     await withEngine({ threads: 1 }, async (engine) => {
       const source = await openSource(engine, [file]);
-      const plan: PassPlan = { view: source.view, identityColumns: source.columns, levelColumns, countColumns, target: { column: "y", kind: "binary" }, folds: 5, seed: 42 };
+      const plan: PassPlan = { view: source.view, fold: rowHashFolds(source.columns, 5, 42), levelColumns, countColumns, target: { column: "y", kind: "binary" } };
       const { table } = await pass(engine, plan, "wide");
       const raw = await engine.rows<Record<string, string | null> & { __fold: number }>(
-        `SELECT *, ${foldSql(source.columns, 42, 5)} AS __fold FROM read_csv(${quoteLiteral(file)}, all_varchar = true, header = true)`, "reading rows back");
+        `SELECT *, ${rowHashFoldSql(source.columns, 42, 5)} AS __fold FROM read_csv(${quoteLiteral(file)}, all_varchar = true, header = true)`, "reading rows back");
       const expected = new Map<string, { rows: number; n_y: number; sum_y: number }>();
       for (const r of raw) {
         const y = r.y === "1" ? 1 : r.y === "0" ? 0 : null;
@@ -124,7 +125,7 @@ describe("the wide pass builds the same level table as the GROUPING SETS pass", 
   });
 
   it(`is chosen by shape: from ${WIDE_PASS_MIN_COLUMNS} measured columns on`, () => {
-    const plan = (n: number): PassPlan => ({ view: "v", identityColumns: [], levelColumns: Array.from({ length: n }, (_, j) => `c${j}`), countColumns: [], folds: 5, seed: 1 });
+    const plan = (n: number): PassPlan => ({ view: "v", fold: rowHashFolds([], 5, 1), levelColumns: Array.from({ length: n }, (_, j) => `c${j}`), countColumns: [] });
     const before = process.env.TAILSIFT_PASS;
     delete process.env.TAILSIFT_PASS;
     try {
