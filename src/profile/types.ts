@@ -10,7 +10,7 @@ export type { FoldContract } from "../engine/folds.js";
 
 /**
  * The Profile: the JSON contract between commands (profile.json). Keys follow
- * ../shared/DESIGN.md; more may be added, none removed. Shares are fractions in [0, 1].
+ * the design in DEVELOPERS.md ("The profile contract"); more may be added, none removed. Shares are fractions in [0, 1].
  */
 
 export type ColumnRole = "categorical" | "identifier" | "constant" | "numeric" | "target" | "excluded";
