@@ -8,7 +8,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { DuckDBInstance, type DuckDBConnection, type DuckDBValue } from "@duckdb/node-api";
-import { throwIfAborted } from "../commands/runState.js";
+import { throwIfAborted } from "../runState.js";
 import { TailsiftError, wrapEngineError } from "../errors.js";
 import { quoteLiteral, quoteLiteralList } from "./sql.js";
 
@@ -169,7 +169,7 @@ export async function openEngine(options: EngineOptions = {}): Promise<Engine> {
   }
   const connection = await instance.connect();
   const run = async (sql: string, doing: string, params?: Record<string, DuckDBValue>) => {
-    throwIfAborted(doing); // a signal that came between queries (commands/runState)
+    throwIfAborted(doing); // a signal that came between queries (runState)
     const began = trace ? Date.now() : 0;
     try {
       await connection.run(sql, params);

@@ -7,6 +7,7 @@
  * (levels.parquet) and the encoding parameters in profile.json (one-hot levels, pooled keep
  * list), which encode maps by, keep every value whole.
  */
+import type { Recommendation } from "../profile/recommendation.js";
 import type { ColumnProfile, Profile } from "../profile/types.js";
 
 /** Longest level value shown whole (characters, UTF-16 units). Common practice: a table cell's worth. */
@@ -20,19 +21,20 @@ export function shortenValue<T extends string | null>(value: T): T {
   return `${head}…[shortened: ${value.length.toLocaleString("en-US")} characters]` as T;
 }
 
-function shortenParams(params: Record<string, unknown>): Record<string, unknown> {
+/** The same parameters with every string (and string in a list) shortened; the shape is unchanged. */
+function shortenParams<P extends object>(params: P): P {
   const out: Record<string, unknown> = {};
   for (const [k, v] of Object.entries(params)) {
     out[k] = typeof v === "string" ? shortenValue(v) : Array.isArray(v) ? v.map((x) => (typeof x === "string" ? shortenValue(x) : x)) : v;
   }
-  return out;
+  return out as P;
 }
 
 function shortenColumn(c: ColumnProfile, params: boolean): ColumnProfile {
   const out: ColumnProfile = { ...c, topLevels: c.topLevels.map((l) => ({ ...l, value: shortenValue(l.value) })) };
   if (c.variants) out.variants = { ...c.variants, examples: c.variants.examples.map((g) => g.map(shortenValue)) };
   if (c.target?.funnel) out.target = { ...c.target, funnel: c.target.funnel.map((f) => ({ ...f, value: shortenValue(f.value) })) };
-  if (params) out.recommendation = { ...c.recommendation, params: shortenParams(c.recommendation.params) };
+  if (params) out.recommendation = { ...c.recommendation, params: shortenParams(c.recommendation.params) } as Recommendation;
   return out;
 }
 

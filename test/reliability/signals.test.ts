@@ -1,6 +1,6 @@
 /**
  * Issue 17, item 4: signals at several moments of `scan --out`, with real child processes. The
- * test hook TAILSIFT_TEST_PAUSE_AT (commands/runState) makes the child wait at a named point, so
+ * test hook TAILSIFT_TEST_PAUSE_AT (src/runState.ts) makes the child wait at a named point, so
  * each signal lands at a known moment. Either nothing new is written and the exit is 130 / 143,
  * or the run completed, says so and exits 0 — never both. Uses dist/ (run `npm run build`).
  */

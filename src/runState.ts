@@ -1,5 +1,5 @@
 /**
- * commands/runState: how a run meets SIGINT / SIGTERM. Outputs are committed in one synchronous
+ * runState: how a run meets SIGINT / SIGTERM. Outputs are committed in one synchronous
  * step (renames), which no signal handler can interrupt (Node runs handlers between tasks). A
  * signal before the commit aborts it: nothing new is written and the exit is 130 / 143. A signal
  * after it is too late to undo: the run finishes, says so, and exits 0.
@@ -8,7 +8,7 @@
  * "tailsift-test: paused at <point>" on stderr and wait there until a signal arrives (at most
  * 60 s), so a test can signal at a known moment. Points: after-pass, before-commit, after-commit.
  */
-import { TailsiftError } from "../errors.js";
+import { TailsiftError } from "./errors.js";
 
 let received: NodeJS.Signals | null = null;
 let committed = false;
