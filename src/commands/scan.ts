@@ -3,7 +3,6 @@
  * table, queries bounded summaries from it, computes the figures and asks advice/ for a
  * recommendation per column.
  */
-import { createRequire } from "node:module";
 import { DEFAULT_POLICY, hashWidths, type AdvicePolicy } from "../advice/policy.js";
 import { recommend } from "../advice/recommend.js";
 import { studentTQuantile } from "../stats/studentTQuantile.js";
@@ -28,6 +27,7 @@ import { columnFigures, isIdentifierLike, unmeasuredColumn } from "../profile/co
 import { countFlags, describeLevel, fitPrior, leakageMetric, targetFigures } from "../profile/targetFigures.js";
 import type { ColumnProfile, Encoding, Profile, ProfileTarget, TargetKind } from "../profile/types.js";
 import { writeLevelTable } from "../engine/levelFile.js";
+import { toolVersion } from "../version.js";
 
 export interface ScanOptions extends EngineOptions, SourceOptions {
   target?: string;
@@ -49,10 +49,7 @@ export interface ScanOptions extends EngineOptions, SourceOptions {
 const FUNNEL_POINTS = 300;
 export const VARIANT_MAX_LEVELS = 100_000;
 
-export function toolVersion(): string {
-  const require = createRequire(import.meta.url);
-  return (require("../../package.json") as { version: string }).version;
-}
+export { toolVersion };
 
 function checkNames(source: Source, names: readonly string[] | undefined, option: string): void {
   for (const name of names ?? []) {

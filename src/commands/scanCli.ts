@@ -6,8 +6,8 @@ import fs from "node:fs";
 import path from "node:path";
 import type { Engine } from "../engine/db.js";
 import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
-import { TailsiftError } from "../errors.js";
 import { validateProfile } from "../profile/schema.js";
+import { readPlan } from "../plan/load.js";
 import type { Encoding, Profile } from "../profile/types.js";
 import { redactProfile } from "../profile/redact.js";
 import { renderDecisionRecord } from "../render/markdown.js";
@@ -87,26 +87,12 @@ export async function writeReportFolder(profile: Profile, dir: string): Promise<
   writeFileAtomic(path.join(dir, "report.html"), html);
 }
 
-/** Reads and validates a saved profile.json. */
-export function readProfile(file: string): Profile {
-  let text: string;
-  try {
-    text = fs.readFileSync(file, "utf8");
-  } catch {
-    throw new TailsiftError("input_not_found", `profile '${file}' not found; give the profile.json written by scan --out`);
-  }
-  let data: unknown;
-  try {
-    data = JSON.parse(text);
-  } catch {
-    throw new TailsiftError("bad_profile", `'${file}' is not JSON; give the profile.json written by scan --out`);
-  }
-  return validateProfile(data, file);
-}
+/** Reads and validates a saved profile.json (kept here for the library API; the loader is plan/load). */
+export { readProfile } from "../plan/load.js";
 
 export async function runReport(profilePath: string, out: string, io: IO): Promise<void> {
-  const profile = readProfile(profilePath);
-  refuseInputAsOutput(out, [profilePath]);
+  const { profile, profilePath: file } = readPlan(profilePath, "report", false);
+  refuseInputAsOutput(out, [file]);
   ensureOutputDir(path.dirname(path.resolve(out)));
   writeFileAtomic(out, await htmlReport(profile));
   io.stderr(`wrote ${out}\n`);

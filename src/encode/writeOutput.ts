@@ -6,8 +6,8 @@
  */
 import fs from "node:fs";
 import path from "node:path";
-import { toolVersion } from "../commands/scan.js";
-import { pendingTemps, tempPathFor } from "../commands/output.js";
+import { pendingTemps, tempPathFor } from "../files/temp.js";
+import { toolVersion } from "../version.js";
 import type { Engine } from "../engine/db.js";
 import type { Source } from "../engine/source.js";
 import { quoteIdent, quoteLiteral } from "../engine/sql.js";
