@@ -128,7 +128,7 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
   }
 
   return writeOutput(engine, {
-    plan, maps, lookups, lookup, levelSource, source, profile, options: o, foldExpr,
+    plan, maps, lookups, lookup, levelSource, source, profile, options: o, foldExpr, target,
     looTarget: o.leaveOneOut && target ? target : undefined,
   });
 }

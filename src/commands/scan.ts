@@ -14,7 +14,7 @@ import { applyOverrides } from "../advice/overrides.js";
 import { buildLevelTable, FOLD_HASH_NAME, type PassTotals } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { collisionTable, HASH_NAME } from "../engine/hashing.js";
-import { looksNumeric, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
+import { looksNumeric, numberTypeOf, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
 import { leakageSums, type LeakageSums } from "../engine/leakage.js";
 import {
   binaryIntervalGroups, buildLevelTotals, continuousFlagCounts, findVariants, funnelLevels,
@@ -107,13 +107,19 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
     const skippedRows = await countSkippedRows(engine, source);
 
     const target = targetSpec ? checkTarget(targetSpec, totals) : undefined;
-    return adviseFromLevelTable(engine, {
+    const profile = await adviseFromLevelTable(engine, {
       levelColumns, numeric, allColumns: source.columns, totals, target, policy, top, options,
       input: {
         paths: source.files, rows: totals.rows, bytes: source.bytes, fingerprint: source.fingerprint, format: source.format,
         ...(skippedRows !== undefined ? { skippedRows } : {}),
       },
     });
+    // the type encode writes each numeric column as (issue 16: typed output)
+    for (const c of profile.columns) {
+      const sample = c.role === "numeric" ? samples.find((x) => x.name === c.name) : undefined;
+      if (sample) c.numberType = numberTypeOf(sample);
+    }
+    return profile;
   }
 }
 

@@ -3,10 +3,10 @@
  * column(s), the column unchanged, or nothing — and checks that the plan fits the input.
  */
 import { TailsiftError } from "../errors.js";
-import type { Profile } from "../profile/types.js";
+import type { ColumnProfile, Profile } from "../profile/types.js";
 import { checkUniqueNames, outputNames, textName } from "./names.js";
 import { encodingSpec } from "./params.js";
-import type { EncodedColumn, EncodeMode, OutputItem } from "./types.js";
+import type { EncodedColumn, EncodeMode, OutputItem, PassType } from "./types.js";
 
 export interface ColumnPlanOptions {
   mode: EncodeMode;
@@ -37,8 +37,20 @@ export function foldColumnsOf(profile: Profile): string[] {
 }
 
 /**
+ * How a passed-through column is written: `--keep` columns untouched (text), the target as its y,
+ * the plan's numeric columns as the type scan's sample recorded (double for older plans).
+ */
+function passType(name: string, kept: boolean, target: string | undefined, column: ColumnProfile | undefined): PassType {
+  if (kept) return "text";
+  if (name === target) return "target";
+  if (column?.role === "numeric") return column.numberType ?? "double";
+  return "text";
+}
+
+/**
  * Plans the output columns. Input columns the plan does not know are left out (unless --keep
- * names them); `--keep` wins over the plan; the target and numeric columns pass through.
+ * names them); `--keep` wins over the plan (and keeps the text); the target and numeric columns
+ * pass through typed (encode/passThrough).
  * @throws TailsiftError (exit 2): `unknown_column` for a --keep column not in the input,
  *   `target_missing` for training input without the plan's target, `plan_mismatch` when plan
  *   columns the run needs are absent (a plan made from another file), `name_clash`, `bad_plan`.
@@ -60,10 +72,11 @@ export function planColumns(profile: Profile, inputColumns: readonly string[], o
   }
   const plan: ColumnPlan = { outputs: [], encoded: [], passedThrough: [], dropped: [], notInPlan: [], names: [] };
   const keep = new Set(o.keep);
+  const profiled = new Map(profile.columns.map((c) => [c.name, c]));
   for (const name of inputColumns) {
     const spec = specs.get(name);
     if (keep.has(name) || (spec !== undefined && (name === target || spec === "keep"))) {
-      plan.outputs.push({ kind: "pass", column: name });
+      plan.outputs.push({ kind: "pass", column: name, type: passType(name, keep.has(name), target, profiled.get(name)) });
       plan.passedThrough.push(name);
       plan.names.push(name);
     } else if (spec === undefined) {
