@@ -19,12 +19,12 @@ import { describeFiles, openSource, type SourceOptions } from "../engine/source.
 import { TailsiftError } from "../errors.js";
 import { writeOutput } from "../encode/writeOutput.js";
 import { mappingsDirFor, outputFormat } from "../encode/outputFile.js";
-import { buildColumnMap, type ColumnMap } from "../encode/columnMaps.js";
+import { encoderFor } from "../encode/encodings/registry.js";
 import { inputLevelsFromPass, inputLevelsFromPlan } from "../encode/levelTables.js";
 import { chooseLookup, prepareLookup, type LookupKind, type LookupRef } from "../encode/lookup.js";
 import { foldColumnsOf, planColumns } from "../encode/planColumns.js";
 import { FOLD_FIELD, ref } from "../encode/expressions.js";
-import type { EncodeMode, EncodeSummary } from "../encode/types.js";
+import type { ColumnMap, EncodeMode, EncodeSummary } from "../encode/types.js";
 import type { Profile } from "../profile/types.js";
 import { loadPlanLevels, readPlan } from "../plan/load.js";
 import { ensureOutputDir, refuseInputAsOutput } from "./output.js";
@@ -116,7 +116,7 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
 
   const maps = new Map<number, ColumnMap>();
   for (const column of plan.encoded) {
-    const map = await buildColumnMap(engine, column, { mode: o.mode, leaveOneOut: o.leaveOneOut ?? false, folds, targetMean: profile.target?.mean });
+    const map = await encoderFor(column).buildMap(engine, column, { mode: o.mode, leaveOneOut: o.leaveOneOut ?? false, folds, targetMean: profile.target?.mean });
     if (map) maps.set(column.index, map);
   }
   const lookup = o.lookup === undefined || o.lookup === "auto" ? await chooseLookup(engine, [...maps.values()].map((m) => m.table)) : o.lookup;

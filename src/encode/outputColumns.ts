@@ -8,11 +8,12 @@
 import { TailsiftError } from "../errors.js";
 import type { TargetSpec } from "../engine/target.js";
 import { guardHeader } from "./cellGuard.js";
-import { outputNames, pooledLabel, textName } from "./names.js";
+import { encoderFor } from "./encodings/registry.js";
+import { textName } from "./names.js";
 import { passSqlType } from "./passThrough.js";
 import type { ColumnPlan } from "./planColumns.js";
 import { safeOutputNames } from "./safeNames.js";
-import type { EncodedColumn, OutputColumn, OutputSqlType } from "./types.js";
+import type { EncodedColumn, OutputColumn } from "./types.js";
 
 export interface NamingOptions {
   /** Training: the fold column's (raw) name; undefined when scoring. */
@@ -23,27 +24,11 @@ export interface NamingOptions {
   target: TargetSpec | undefined;
 }
 
-/** The SQL type of one encoded output column. */
-function encodedType(column: EncodedColumn): OutputSqlType {
-  switch (column.spec.encoding) {
-    case "indicator": case "one-hot": case "pooled-one-hot": return "INTEGER";
-    case "hashing": case "codes": return "BIGINT";
-    case "frequency": case "target-kfold": return "DOUBLE";
-  }
-}
-
 /** What each output column of an encoded column holds: (level) for one-hot, the pooled column, … */
 function encodedOutputs(column: EncodedColumn): Omit<OutputColumn, "name">[] {
-  const { name, spec } = column;
-  const base = { column: name, kind: "encoded" as const, type: encodedType(column) };
-  const raw = outputNames(column);
-  if (spec.encoding === "one-hot") return spec.levels.map((level, k) => ({ ...base, rawName: raw[k]!, level }));
-  if (spec.encoding === "pooled-one-hot") {
-    return [...spec.keep.map((level, k) => ({ ...base, rawName: raw[k]!, level })),
-      { ...base, rawName: raw[spec.keep.length] ?? `${name}=${pooledLabel(spec.keep, spec.other)}`, pooled: true as const }];
-  }
-  if (spec.encoding === "indicator") return [{ ...base, rawName: name, level: spec.one }];
-  return [{ ...base, rawName: name }];
+  const encoder = encoderFor(column);
+  const holds = encoder.outputHolds(column);
+  return encoder.outputNames(column).map((rawName, k) => ({ rawName, column: column.name, kind: "encoded" as const, ...holds[k], type: encoder.outputType }));
 }
 
 /**

@@ -4,7 +4,8 @@
  */
 import { TailsiftError } from "../errors.js";
 import type { ColumnProfile, Profile } from "../profile/types.js";
-import { checkUniqueNames, outputNames, textName } from "./names.js";
+import { encoderFor } from "./encodings/registry.js";
+import { checkUniqueNames, textName } from "./names.js";
 import { encodingSpec } from "./params.js";
 import type { EncodedColumn, EncodeMode, OutputItem, PassType } from "./types.js";
 
@@ -87,7 +88,7 @@ export function planColumns(profile: Profile, inputColumns: readonly string[], o
       const column: EncodedColumn = { name, index: plan.encoded.length, spec };
       plan.encoded.push(column);
       plan.outputs.push({ kind: "encoded", column });
-      plan.names.push(...outputNames(column));
+      plan.names.push(...encoderFor(column).outputNames(column));
       if (o.keepOriginal) {
         plan.outputs.push({ kind: "text", column: name });
         plan.names.push(textName(name));

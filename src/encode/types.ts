@@ -3,6 +3,7 @@
  * what the output holds, and the summary printed at the end.
  */
 import type { ParentSpec } from "../hierarchy/types.js";
+import type { MappingFile } from "./mappingFiles.js";
 import type { Encoding } from "../profile/types.js";
 
 export type EncodeMode = "training" | "scoring";
@@ -47,6 +48,26 @@ export interface EncodedColumn {
 
 /** How a passed-through column is written (encode/passThrough). */
 export type PassType = "text" | "integer" | "double" | "target";
+
+/** The mapping tables one column's encoding built (encode/encodings/*). */
+export interface ColumnMap {
+  /** The table the output query looks up (keyed by level, or by level and fold). */
+  table: string;
+  fields: string[];
+  perFold: boolean;
+  /** Tables written beside the output (see MappingFile). */
+  files: MappingFile[];
+  /** Backoff (target or hashing) / hierarchical: the per-level table the grouping counts read (encode/hierarchyCounts). */
+  levelTable?: string;
+}
+
+export interface MapContext {
+  mode: EncodeMode;
+  leaveOneOut: boolean;
+  folds: number;
+  /** The plan's target mean (p of the scoring mapping). */
+  targetMean: number | undefined;
+}
 
 /** One item of the output, in output order. */
 export type OutputItem =

@@ -16,16 +16,16 @@ import type { Profile, ProfileTarget } from "../profile/types.js";
 import { CELL_GUARD_PREFIX, FORMULA_STARTS, guardCellSql } from "./cellGuard.js";
 import { outputColumns } from "./outputColumns.js";
 import { passSql, valueErrorOf } from "./passThrough.js";
-import type { ColumnMap } from "./columnMaps.js";
 import { columnCounts, fallbackRule } from "./counts.js";
-import { columnSql, FOLD_FIELD, ref, ROW_FIELD, Y_FIELD } from "./expressions.js";
+import { encoderFor } from "./encodings/registry.js";
+import { FOLD_FIELD, ref, ROW_FIELD, Y_FIELD } from "./expressions.js";
 import type { LookupKind, LookupRef } from "./lookup.js";
 import { manifestEntry } from "./manifest.js";
 import { mappingBaseNames, writeManifest, writeMappingTable } from "./mappingFiles.js";
-import { groupingCounts, groupingOf } from "./structureCounts.js";
+import { groupingCounts, groupingOf } from "./hierarchyCounts.js";
 import { commitDir, commitFile, mappingsDirFor, outputFormat } from "./outputFile.js";
 import type { ColumnPlan } from "./planColumns.js";
-import type { ColumnSummary, EncodeMode, EncodeSummary, OutputColumn } from "./types.js";
+import type { ColumnMap, ColumnSummary, EncodeMode, EncodeSummary, OutputColumn } from "./types.js";
 
 export interface WriteContext {
   plan: ColumnPlan;
@@ -57,7 +57,7 @@ export function outputQuery(ctx: WriteContext, outputs: readonly OutputColumn[])
   for (const item of plan.outputs) {
     if (item.kind === "pass") exprs.push(passSql(item.column, item.type, { csv, cellGuard: guard, target: ctx.target }));
     else if (item.kind === "text") exprs.push(guard ? guardCellSql(ref(item.column)) : ref(item.column));
-    else exprs.push(...columnSql(item.column, { mode: o.mode, leaveOneOut: o.leaveOneOut ?? false, lookup: lookups.get(item.column.index) ?? null }));
+    else exprs.push(...encoderFor(item.column).columnSql(item.column, { mode: o.mode, leaveOneOut: o.leaveOneOut ?? false, lookup: lookups.get(item.column.index) ?? null }));
   }
   if (ctx.foldExpr) exprs.push(ref(FOLD_FIELD));
   if (exprs.length !== outputs.length) throw new Error("output columns and expressions are not aligned");
