@@ -12,6 +12,7 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { encode } from "../../src/commands/encode.js";
 import { withEngine } from "../../src/engine/db.js";
+import { renderEncodeSummary } from "../../src/encode/summaryTable.js";
 import type { OutputColumn } from "../../src/encode/types.js";
 import { collector, tempDir, writeFile } from "../helpers/tmp.js";
 import { parseCsv, column, runEncodeCli, scanPlan } from "./helpers.js";
@@ -62,6 +63,7 @@ describe("encode writes typed columns with safe names", () => {
     expect(manifest.output.map).toContainEqual({ name: "species_dog", rawName: "species=dog", column: "species", kind: "encoded", level: "dog", type: "INTEGER" });
     expect(manifest.target.output).toMatchObject({ name: "no_show", type: "INTEGER" });
     for (const m of manifest.output.map) expect(types.get(m.name), m.name).toBe(m.type);
+    expect(renderEncodeSummary(summary)).toMatch(/\nsafe names: [\d,]+ output columns renamed, e\.g\. 'clinic=[^']+' → 'clinic_[A-Za-z0-9_]+'; the map is in mappings\.json \(output\.map\)\n/);
   }, 300_000);
 
   it("CSV keeps plain numbers: the input's number text, unchanged", async () => {
