@@ -1,4 +1,4 @@
-/** version: the tool's version, read from package.json (one level above src/ and dist/). */
+/** The tool's version, read from package.json (every command records it). */
 import { createRequire } from "node:module";
 
 export function toolVersion(): string {

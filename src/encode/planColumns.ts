@@ -14,6 +14,8 @@ export interface ColumnPlanOptions {
   keep: readonly string[];
   keepOriginal: boolean;
   foldColumn: string;
+  /** Training: the columns the plan's fold contract reads (engine/folds keyColumns); they must be in the input. */
+  foldKeys: readonly string[];
 }
 
 export interface ColumnPlan {
@@ -27,15 +29,6 @@ export interface ColumnPlan {
 }
 
 const list = (names: readonly string[]) => names.map((n) => `'${n}'`).join(", ");
-
-/** The plan's fold identity: settings.foldColumns (every column of the scanned input, in file order). */
-export function foldColumnsOf(profile: Profile): string[] {
-  const cols = profile.settings.foldColumns;
-  if (!Array.isArray(cols) || cols.length === 0 || !cols.every((c) => typeof c === "string")) {
-    throw new TailsiftError("bad_plan", "the plan has no settings.foldColumns (it was not made by scan over raw rows), so training folds cannot be reproduced; rescan the training extract");
-  }
-  return cols as string[];
-}
 
 /**
  * How a passed-through column is written: `--keep` columns untouched (text), the target as its y,
@@ -66,7 +59,7 @@ export function planColumns(profile: Profile, inputColumns: readonly string[], o
   }
   const specs = new Map(profile.columns.map((c) => [c.name, encodingSpec(c)]));
   const needed = new Set(profile.columns.filter((c) => c.name !== target && specs.get(c.name) !== "drop").map((c) => c.name));
-  if (o.mode === "training") for (const c of foldColumnsOf(profile)) needed.add(c);
+  if (o.mode === "training") for (const c of o.foldKeys) needed.add(c);
   const missing = [...needed].filter((c) => !present.has(c));
   if (missing.length > 0) {
     throw new TailsiftError("plan_mismatch", `the input lacks the plan's column${missing.length === 1 ? "" : "s"} ${list(missing.slice(0, 8))}${missing.length > 8 ? " …" : ""}; the plan was made from ${list(profile.input.paths.slice(0, 2))} — encode data with the same columns or rescan`);

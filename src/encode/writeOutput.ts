@@ -9,6 +9,7 @@ import path from "node:path";
 import { pendingTemps, tempPathFor } from "../files/temp.js";
 import { toolVersion } from "../version.js";
 import type { Engine } from "../engine/db.js";
+import type { FoldContract } from "../engine/folds.js";
 import type { Source } from "../engine/source.js";
 import { quoteIdent, quoteLiteral } from "../engine/sql.js";
 import { NEGATIVE_WORDS, POSITIVE_WORDS, targetSql, type TargetSpec } from "../engine/target.js";
@@ -38,8 +39,8 @@ export interface WriteContext {
   options: { out: string; mode: EncodeMode; foldColumn: string; leaveOneOut?: boolean; rawNames?: boolean; cellGuard?: boolean };
   /** The plan's target (the pass-through target is written as its y). */
   target: TargetSpec | undefined;
-  /** The fold expression (training) or null. */
-  foldExpr: string | null;
+  /** Training: the plan's fold contract (read once by commands/encode) and its SQL; null when scoring. */
+  folds: { contract: FoldContract; expr: string } | null;
   /** The target whose y the leave-one-out encoding reads, when used. */
   looTarget: TargetSpec | undefined;
 }
@@ -50,7 +51,7 @@ export function outputQuery(ctx: WriteContext, outputs: readonly OutputColumn[])
   const csv = outputFormat(o.out).format === "csv";
   const guard = csv && (o.cellGuard ?? true);
   const extras: string[] = [];
-  if (ctx.foldExpr) extras.push(`${ctx.foldExpr} AS ${quoteIdent(FOLD_FIELD)}`);
+  if (ctx.folds) extras.push(`${ctx.folds.expr} AS ${quoteIdent(FOLD_FIELD)}`);
   if (ctx.looTarget) extras.push(`${targetSql(ctx.looTarget).y} AS ${quoteIdent(Y_FIELD)}`);
   if (ctx.lookup === "join") extras.push(`row_number() OVER () AS ${quoteIdent(ROW_FIELD)}`);
   const exprs: string[] = [];
@@ -59,7 +60,7 @@ export function outputQuery(ctx: WriteContext, outputs: readonly OutputColumn[])
     else if (item.kind === "text") exprs.push(guard ? guardCellSql(ref(item.column)) : ref(item.column));
     else exprs.push(...encoderFor(item.column).columnSql(item.column, { mode: o.mode, leaveOneOut: o.leaveOneOut ?? false, lookup: lookups.get(item.column.index) ?? null }));
   }
-  if (ctx.foldExpr) exprs.push(ref(FOLD_FIELD));
+  if (ctx.folds) exprs.push(ref(FOLD_FIELD));
   if (exprs.length !== outputs.length) throw new Error("output columns and expressions are not aligned");
   const items = exprs.map((e, k) => `${e} AS ${quoteIdent(outputs[k]!.name)}`);
   const joins = [...lookups.values()].map((l) => l.join).filter((j): j is string => j !== null);
@@ -80,7 +81,7 @@ export async function writeOutput(engine: Engine, ctx: WriteContext): Promise<En
   const columns: ColumnSummary[] = [];
   const entries: Record<string, unknown>[] = [];
   const guard = format.format === "csv" && (o.cellGuard ?? true);
-  const outputs = outputColumns(plan, { foldColumn: ctx.foldExpr ? o.foldColumn : undefined, rawNames: o.rawNames ?? false, guardHeaders: guard, target: ctx.target });
+  const outputs = outputColumns(plan, { foldColumn: ctx.folds ? o.foldColumn : undefined, rawNames: o.rawNames ?? false, guardHeaders: guard, target: ctx.target });
   pendingTemps.add(tmp);
   try {
     if (ctx.lookup === "join") await engine.run("SET disabled_optimizers = 'build_side_probe_side'", "keeping mapping tables on the build side");
@@ -117,7 +118,7 @@ export async function writeOutput(engine: Engine, ctx: WriteContext): Promise<En
     commitDir(tmpDir, mapsDir);
     return {
       mode: o.mode, output: o.out, format: format.format, mappings: mapsDir, rows: copied?.Count ?? 0,
-      ...(ctx.foldExpr ? { foldColumn: o.foldColumn } : {}),
+      ...(ctx.folds ? { foldColumn: o.foldColumn } : {}),
       levelSource: ctx.levelSource, lookup: ctx.lookup, columns, outputColumns: outputs,
       names: o.rawNames ? "raw" : "safe", cellGuard: guard ? CELL_GUARD_PREFIX : null,
       passedThrough: plan.passedThrough, dropped: plan.dropped, notInPlan: plan.notInPlan,
@@ -128,6 +129,9 @@ export async function writeOutput(engine: Engine, ctx: WriteContext): Promise<En
     pendingTemps.delete(tmp);
   }
 }
+
+const foldManifest = (column: string, f: FoldContract) =>
+  ({ column, k: f.k, seed: f.seed, hash: f.hash, identityColumns: f.keyColumns, ...(f.kind === "grouped" ? { kind: "grouped" } : {}) });
 
 function manifest(ctx: WriteContext, entries: Record<string, unknown>[], outputs: readonly OutputColumn[], guard: boolean): Record<string, unknown> {
   const { profile, options: o } = ctx;
@@ -143,7 +147,7 @@ function manifest(ctx: WriteContext, entries: Record<string, unknown>[], outputs
       names: o.rawNames ? "raw" : "safe", cellGuard: guard ? { prefix: CELL_GUARD_PREFIX, starts: FORMULA_STARTS } : null,
       map: outputs,
     },
-    ...(ctx.foldExpr ? { folds: { column: outputs.find((x) => x.kind === "fold")?.name ?? o.foldColumn, k: profile.settings.folds, seed: profile.settings.seed, hash: profile.settings.foldHash ?? null, identityColumns: profile.settings.foldColumns } } : {}),
+    ...(ctx.folds ? { folds: foldManifest(outputs.find((x) => x.kind === "fold")?.name ?? o.foldColumn, ctx.folds.contract) } : {}),
     ...(t ? { target: { column: t.column, kind: t.kind, positive: t.positive ?? null, mean: t.mean, ...(typedTarget ? { output: targetOutput(t, typedTarget.name) } : {}) } } : {}),
     columns: entries,
   };

@@ -12,13 +12,13 @@ import type { Engine } from "../engine/db.js";
 import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
 import { quoteLiteral } from "../engine/sql.js";
 import { TailsiftError } from "../errors.js";
-import { validateProfile } from "../profile/schema.js";
+import { readProfile } from "../profile/readProfile.js";
 import type { Profile } from "../profile/types.js";
 
 export const PROFILE_FILE_NAME = "profile.json";
 
 /** The command reading the plan, named in every message. */
-export type PlanReader = "encode" | "drift" | "report";
+export type PlanReader = "encode" | "drift" | "report" | "sql";
 
 export interface PlanFiles {
   folder: string;
@@ -29,23 +29,6 @@ export interface PlanFiles {
 
 export interface LoadedPlan extends PlanFiles {
   profile: Profile;
-}
-
-/** Reads and validates a saved profile.json (a TailsiftError, exit 2, for a missing or bad file). */
-export function readProfile(file: string): Profile {
-  let text: string;
-  try {
-    text = fs.readFileSync(file, "utf8");
-  } catch {
-    throw new TailsiftError("input_not_found", `profile '${file}' not found; give the profile.json written by scan --out`);
-  }
-  let data: unknown;
-  try {
-    data = JSON.parse(text);
-  } catch {
-    throw new TailsiftError("bad_profile", `'${file}' is not JSON; give the profile.json written by scan --out`);
-  }
-  return validateProfile(data, file);
 }
 
 /** The profile's path: `plan` itself, or profile.json inside the folder `plan`. */

@@ -9,7 +9,9 @@
  *    n − 1 + m ≤ 0 → p; a row without a target value gets (sum + m·p)/(n + m); missing → p;
  *  - over a hierarchy (backoff groups or a hierarchical prior): encode/hierarchyMaps, as k-fold
  *    and scoring — the mapping covers every plan and input level, so only missing rows take the
- *    fallback.
+ *    fallback;
+ *  - a flat weight m of null (no detectable spread, m = ∞): every level takes the prior (in k-fold
+ *    training the other folds' mean), never the raw level means of m = 0.
  * Flat maps: encode/targetMaps; the formula as SQL: engine/formulaSql.
  */
 import { mEstimateSql } from "../../engine/formulaSql.js";
@@ -53,6 +55,7 @@ export const targetKfold: EncodingModule<Spec> = {
     if (ctx.mode === "scoring") return [`coalesce(${look.value("value")}, ${p})`];
     if (!ctx.leaveOneOut) return [`coalesce(${look.value("value")}, ${variableSql(foldPriorVar(column.index))}[${ref(FOLD_FIELD)} + 1])`];
     if (column.spec.structure) throw new Error(`column '${column.name}' has no leave-one-out form`);
+    if (column.spec.weight === null) return [p]; // m = ∞ (no detectable spread): every row takes the prior
     const n = `${look.value("n_y")}::DOUBLE`;
     const s = look.value("sum_y");
     const y = ref(Y_FIELD);
@@ -65,6 +68,7 @@ export const targetKfold: EncodingModule<Spec> = {
 
   fallbackCondition(spec, mode, leaveOneOut) {
     if (spec.structure) return hierarchyFallbackCondition(spec.structure, mode);
+    if (spec.weight === null) return "l.level IS NOT NULL"; // m = ∞: every level gets the prior
     if (mode === "scoring") return "l.level IS NOT NULL AND m.level IS NULL";
     if (leaveOneOut) return `l.level IS NOT NULL AND (m.level IS NULL OR m.n_y - 1 + ${sqlDouble(spec.weight)} <= 0)`;
     return "l.level IS NOT NULL AND (m.level IS NULL OR m.n_other <= 0)";
