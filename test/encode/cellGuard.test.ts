@@ -3,7 +3,7 @@
  * and header cells that start with = + - @ (or a tab or CR) get a single-quote prefix — common
  * practice (OWASP, "CSV Injection") — plain numbers (a negative number included) stay plain, and
  * --no-cell-guard writes every cell as it is. On the code before this change the cells below
- * were written raw.
+ * were written raw. Source and the characters: docs/references.md "Encode output".
  */
 import fs from "node:fs";
 import path from "node:path";

@@ -3,7 +3,8 @@
  * file read — after globs and Parquet folders are expanded — by real path and by device/inode,
  * so a glob, a Parquet folder, a symlink or a hard link cannot sneak the input in as --out. On
  * the code before this check (argument strings compared), each of these runs exited 0 and
- * replaced the input.
+ * replaced the input. What makes two paths one file (POSIX stat, realpath): docs/references.md
+ * "Encode output".
  */
 import fs from "node:fs";
 import path from "node:path";

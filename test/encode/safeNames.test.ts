@@ -3,7 +3,7 @@
  * task states it (runs of characters outside [A-Za-z0-9_] → one `_`, trim `_`, `col` when
  * empty, `c_` before a leading digit, then `_2`, `_3`, … for names taken case-insensitively, in
  * output order). Scoring SQL written elsewhere must give the same names; these cases are its
- * contract.
+ * contract. The rule is our own (no external source): docs/references.md "Encode output".
  */
 import { describe, expect, it } from "vitest";
 import { safeName, safeOutputNames } from "../../src/encode/safeNames.js";

@@ -5,7 +5,8 @@
  * 0/1 INTEGER and the fold as INTEGER, while --keep-original copies stay VARCHAR. Every name is
  * [A-Za-z0-9_] and unique, and the manifest and the summary map each name to (column, level).
  * On the code before this change every pass-through column was VARCHAR and one-hot names were
- * `clinic=Yarrowby Vets 24`.
+ * `clinic=Yarrowby Vets 24`. Why BIGINT/DOUBLE for the sample's columns: docs/references.md
+ * "Encode output" (the generator's column types).
  */
 import fs from "node:fs";
 import path from "node:path";
