@@ -8,16 +8,16 @@ import path from "node:path";
 import type { Engine } from "../engine/db.js";
 import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
 import { TailsiftError } from "../errors.js";
-import { readProfile } from "../profile/readProfile.js";
+import { readPlan } from "../plan/load.js";
 import { validateProfile } from "../profile/schema.js";
-export { readProfile };
+export { readProfile } from "../profile/readProfile.js";
 import type { Encoding, Profile } from "../profile/types.js";
 import { redactProfile } from "../profile/redact.js";
 import { renderDecisionRecord } from "../render/markdown.js";
 import { renderTable } from "../render/table.js";
 import { shortenForReading, shortenForRecord } from "../render/shorten.js";
 import { ensureOutputDir, keepCreatedDirs, pendingPathFor, pendingTemps, refuseInputAsOutput, removeStaleTemps, writeFileAtomic, writeFileSet } from "./output.js";
-import { buildManifest, PLAN_MANIFEST, verifyPlanSet } from "../plan/integrity.js";
+import { buildManifest, PLAN_MANIFEST } from "../plan/integrity.js";
 import { commitOutputs, testPause, throwIfSignalled } from "../runState.js";
 import { scanLevels, type LevelScanOptions } from "./levels.js";
 import { scan } from "./scan.js";
@@ -113,9 +113,8 @@ export async function writeReportFolder(profile: Profile, dir: string, options: 
 
 
 export async function runReport(profilePath: string, out: string, io: IO): Promise<void> {
-  const profile = readProfile(profilePath);
-  verifyPlanSet(profilePath);
-  refuseInputAsOutput(out, [profilePath]);
+  const { profile, profilePath: file } = readPlan(profilePath, "report", false);
+  refuseInputAsOutput(out, [file]);
   ensureOutputDir(path.dirname(path.resolve(out)));
   writeFileAtomic(out, await htmlReport(shortenForReading(profile)));
   io.stderr(`wrote ${out}\n`);
