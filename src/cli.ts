@@ -7,7 +7,8 @@ import { realpathSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { Command, CommanderError, Option } from "commander";
 import { decisions, engineOptions, fraction, integer, list, sourceOptions } from "./commands/commonOptions.js";
-import { removePendingTemps } from "./commands/output.js";
+import { removeCreatedEmptyDirs, removePendingTemps } from "./commands/output.js";
+import { noteSignal, outputsCommitted, signalExitCode, signalReceived } from "./runState.js";
 import { progressEnabled, startProgress } from "./commands/progress.js";
 import { runReport, runScan, type ScanCliOptions } from "./commands/scanCli.js";
 import { toolVersion } from "./version.js";
@@ -18,6 +19,7 @@ import type { Engine } from "./engine/db.js";
 import { DEFAULT_FOLD_COUNT, DEFAULT_FOLD_SEED } from "./engine/folds.js";
 import type { CliIO } from "./commands/io.js";
 import { isTailsiftError } from "./errors.js";
+import { refuseBlankOptions } from "./commands/optionChecks.js";
 
 export type { CliIO };
 
@@ -27,8 +29,8 @@ export function buildProgram(io: CliIO): Command {
     .name("tailsift")
     .description("Measure every categorical column of a large extract in one pass, recommend an encoding with the numbers behind it, apply it leak-free and check newer extracts against the record.")
     .version(toolVersion(), "-V, --version")
-    .showHelpAfterError("(run with --help for usage)")
-    .configureOutput({ writeOut: io.stdout, writeErr: io.stderr })
+    // commander's own errors are printed by runCli as one prefixed line
+    .configureOutput({ writeOut: io.stdout, writeErr: io.stderr, outputError: () => {} })
     .exitOverride();
 
   const scan = program.command("scan")
@@ -43,7 +45,7 @@ export function buildProgram(io: CliIO): Command {
     .option("--folds <k>", "folds for out-of-fold figures", integer("--folds"), DEFAULT_FOLD_COUNT)
     .option("--seed <n>", "seed of the fold assignment", integer("--seed"), DEFAULT_FOLD_SEED)
     .option("--fold-by <names>", "entity-grouped folds: hash these key columns (comma-separated) so every row of an entity shares a fold", list)
-    .option("--top <n>", "top levels listed per column", integer("--top"), 20)
+    .option("--top <n>", "top levels listed per column", integer("--top", 1), 20)
     .option("--max-one-hot <n>", "widest one-hot block advised", integer("--max-one-hot"), 16)
     .option("--min-level-rows <n>", "rows a level needs for its own column", integer("--min-level-rows"), 30)
     .option("--coverage <share>", "row share pooled one-hot must cover", fraction("--coverage"), 0.95)
@@ -70,6 +72,7 @@ export function buildProgram(io: CliIO): Command {
     .option("--debug", "print the stack trace of an error")
     .action(async (profilePath: string, opts: { out: string }) => runReport(profilePath, opts.out, io));
 
+  program.hook("preAction", (_root, action) => refuseBlankOptions(action));
   addEncodeCommand(program, io);
   addDriftCommand(program, io);
   addSqlCommand(program, io);
@@ -85,8 +88,12 @@ export async function runCli(argv: readonly string[], io: CliIO): Promise<number
   } catch (err) {
     if (err instanceof CommanderError) {
       if (err.code === "commander.helpDisplayed" || err.code === "commander.version" || err.code === "commander.help") return 0;
-      return err.exitCode === 0 ? 0 : 2;
+      if (err.exitCode === 0) return 0;
+      const reason = err.message.replace(/^error: /, "").split("\n")[0];
+      io.stderr(`tailsift: ${reason} (run with --help for usage)\n`);
+      return 2;
     }
+    removeCreatedEmptyDirs(); // a failed run leaves no empty --out folder
     const debug = argv.includes("--debug");
     if (isTailsiftError(err)) {
       io.stderr(`tailsift: ${err.message}\n`);
@@ -111,26 +118,28 @@ function isMain(): boolean {
 
 if (isMain()) {
   let engine: Engine | null = null;
-  let signalled: NodeJS.Signals | null = null;
+  // A signal before the outputs are committed aborts the run (nothing new written, exit 130 /
+  // 143); one after it is too late to undo, so the run finishes and says so (commands/runState).
   const onSignal = (signal: NodeJS.Signals) => {
-    if (signalled) process.exit(signal === "SIGINT" ? 130 : 143);
-    signalled = signal;
-    if (engine) engine.interrupt();
-    else { removePendingTemps(); process.exit(signal === "SIGINT" ? 130 : 143); }
+    if (signalReceived()) { removePendingTemps(); removeCreatedEmptyDirs(); process.exit(signalExitCode(signal)); }
+    noteSignal(signal);
+    if (engine && !outputsCommitted()) engine.interrupt();
   };
   process.on("SIGINT", onSignal);
   process.on("SIGTERM", onSignal);
   const io: CliIO = {
     stdout: (t) => process.stdout.write(t),
     stderr: (t) => process.stderr.write(t),
-    onEngine: (e) => { engine = e; },
+    onEngine: (e) => { engine = e; if (e && signalReceived() && !outputsCommitted()) e.interrupt(); },
   };
   runCli(process.argv.slice(2), io).then((code) => {
     removePendingTemps();
-    process.exitCode = signalled ? (signalled === "SIGINT" ? 130 : 143) : code;
+    const signal = signalReceived();
+    if (code !== 0) removeCreatedEmptyDirs();
+    if (signal && code === 0) process.stderr.write(`tailsift: ${signal} came after the run had finished; its outputs are complete\n`);
+    process.exitCode = signal && code !== 0 ? signalExitCode(signal) : code;
   }, (err: unknown) => {
     process.stderr.write(`tailsift: ${String(err)}\n`);
     process.exitCode = 2;
   });
 }
-

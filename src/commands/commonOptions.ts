@@ -3,9 +3,20 @@ import { type Command, InvalidArgumentError } from "commander";
 import { parseDecision } from "../advice/overrides.js";
 import type { Encoding } from "../profile/types.js";
 
-export const integer = (name: string) => (value: string) => {
-  if (!/^-?\d+$/.test(value)) throw new InvalidArgumentError(`${name} must be an integer`);
-  return Number(value);
+export const integer = (name: string, min?: number) => (value: string) => {
+  if (!/^\s*-?\d+\s*$/.test(value)) throw new InvalidArgumentError(`${name} must be an integer`);
+  const n = Number(value);
+  // beyond 2^53 a JavaScript number is not that integer any more (a 30-digit --seed)
+  if (!Number.isSafeInteger(n)) throw new InvalidArgumentError(`${name} must be an integer from ${-Number.MAX_SAFE_INTEGER} to ${Number.MAX_SAFE_INTEGER} (got ${value})`);
+  if (min !== undefined && n < min) throw new InvalidArgumentError(`${name} must be an integer of at least ${min} (got ${value})`);
+  return n;
+};
+/** A CSV delimiter: exactly one character, not a quote, newline or NUL; "\\t" means tab. */
+export const delimiter = (value: string) => {
+  const d = value === "\\t" ? "\t" : value;
+  if ([...d].length !== 1) throw new InvalidArgumentError(`--delimiter must be one character (got '${value}'); use \\t for tab`);
+  if (d === "\"" || d === "\n" || d === "\r" || d === "\u0000") throw new InvalidArgumentError("--delimiter cannot be a quote, a newline or NUL");
+  return d;
 };
 export const fraction = (name: string) => (value: string) => {
   const x = Number(value);
@@ -32,6 +43,6 @@ export function sourceOptions(cmd: Command): Command {
   return cmd
     .option("--skip-bad-rows", "skip rows that do not parse (ragged rows) instead of stopping")
     .option("--encoding <name>", "text encoding of CSV input: utf-8, latin-1 or utf-16")
-    .option("--delimiter <char>", "CSV delimiter (default: detected; tab for .tsv)");
+    .option("--delimiter <char>", "CSV delimiter (default: detected; tab for .tsv)", delimiter);
 }
 

@@ -14,6 +14,7 @@
  */
 import path from "node:path";
 import { foldSql, readFoldContract, singleFold } from "../engine/folds.js";
+import { contentFingerprintOf } from "../engine/contentFingerprint.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { describeFiles, openSource, type SourceOptions } from "../engine/source.js";
 import { TailsiftError } from "../errors.js";
@@ -27,7 +28,7 @@ import { FOLD_FIELD, ref } from "../encode/expressions.js";
 import type { ColumnMap, EncodeMode, EncodeSummary } from "../encode/types.js";
 import type { Profile } from "../profile/types.js";
 import { loadPlanLevels, readPlan } from "../plan/load.js";
-import { ensureOutputDir, refuseInputAsOutput } from "./output.js";
+import { ensureOutputDir, refuseInputAsOutput, removeStaleTemps } from "./output.js";
 
 export type { EncodeSummary } from "../encode/types.js";
 
@@ -71,6 +72,7 @@ export async function encode(inputs: readonly string[], options: EncodeOptions):
   refuseInputAsOutput(options.out, [...inputs, profilePath, levelsPath], [mapsDir]);
   outputFormat(options.out);
   ensureOutputDir(path.dirname(path.resolve(options.out)));
+  removeStaleTemps(path.dirname(path.resolve(options.out)), path.basename(options.out)); // left by a killed run
   // DuckDB may only touch the inputs, the plan's folder and the output's folder (plus its temp dir)
   const lockToPaths = options.lockToPaths ?? [...inputs, path.dirname(path.resolve(options.out)), path.dirname(path.resolve(profilePath))];
   return withEngine({ ...options, lockToPaths }, async (engine) => {
@@ -105,14 +107,19 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
   if (names.length > 0) {
     await loadPlanLevels(engine, levelsPath, "encode", names);
     // The scanned extract itself (and read the same way): its level table is the plan's.
-    if (source.fingerprint === profile.input.fingerprint && !o.recount && !o.skipBadRows) {
+    // The cheap fingerprint is the first screen; the content fingerprint (when the plan has one)
+    // decides: changed content is recounted by a pass, and the summary says so.
+    const sameFile = source.fingerprint === profile.input.fingerprint && !o.recount && !o.skipBadRows;
+    const sameContent = sameFile && await sameContentAsPlan(engine, source, profile);
+    if (sameFile && !sameContent) levelSource = "input pass (content differs from the plan's scan)";
+    if (sameContent) {
       await inputLevelsFromPlan(engine, levelsPath, names);
       levelSource = "plan level table";
     } else {
       await inputLevelsFromPass(engine, names, {
         view: source.view, fold: folding, ...(needsTarget && target ? { target } : {}),
       }, `reading ${describeFiles(source.files)}`);
-      levelSource = "input pass";
+      if (levelSource === "none") levelSource = "input pass";
     }
   }
 
@@ -134,4 +141,11 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
     folds: training ? { contract: folding, expr: foldSql(folding) } : null,
     looTarget: o.leaveOneOut && target ? target : undefined,
   });
+}
+
+/** True when the input's content fingerprint is the plan's (or the plan predates content fingerprints). */
+async function sameContentAsPlan(engine: Engine, source: { view: string; columns: string[]; files: string[] }, profile: Profile): Promise<boolean> {
+  const recorded = profile.input.contentFingerprint;
+  if (recorded === undefined) return true;
+  return (await contentFingerprintOf(engine, source.view, source.columns, `checking the content of ${describeFiles(source.files)}`)) === recorded;
 }

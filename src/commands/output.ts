@@ -46,6 +46,96 @@ function makeDirs(dir: string): void {
   const parent = path.dirname(dir);
   if (parent !== dir) makeDirs(parent);
   fs.mkdirSync(dir);
+  createdDirs.push(dir);
+}
+
+/** Folders this run created (deepest last), removed again when the run writes nothing. */
+const createdDirs: string[] = [];
+
+/** Removes the folders this run created, if still empty (an interrupted or failed run leaves no empty --out). */
+export function removeCreatedEmptyDirs(): void {
+  for (const dir of createdDirs.splice(0).reverse()) {
+    try { fs.rmdirSync(dir); } catch { /* not empty, or gone: leave it */ }
+  }
+}
+
+/** Forgets the created folders once outputs are in them (they stay). */
+export function keepCreatedDirs(): void { createdDirs.length = 0; }
+
+const TEMP_NAME = /^\..+\.(\d+)(\.pending)?\.tmp$/;
+
+/**
+ * Removes temporary files of dead runs from `dir` (a run killed by SIGKILL cannot clean up):
+ * names of our pattern `.<file>.<pid>[.pending].tmp` whose pid is no live process. `only`, when
+ * given, limits it to temp files of that destination name (a folder that is not ours).
+ */
+export function removeStaleTemps(dir: string, only?: string): void {
+  let names: string[];
+  try { names = fs.readdirSync(dir); } catch { return; }
+  for (const name of names) {
+    const m = TEMP_NAME.exec(name);
+    if (!m || (only !== undefined && !name.startsWith(`.${only}.`))) continue;
+    const pid = Number(m[1]);
+    if (pid === process.pid || processAlive(pid)) continue;
+    fs.rmSync(path.join(dir, name), { force: true, recursive: true });
+  }
+}
+
+function processAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (err) {
+    return (err as NodeJS.ErrnoException).code === "EPERM";
+  }
+}
+
+/**
+ * Writes a set of files into `dir` as one unit: each goes to a pending temp file first, then
+ * `commit` runs the synchronous renames — `first` (the manifest) before the others, then the
+ * removals (files of the old set that the new one lacks).
+ * @param files final name → content (string) or path of a finished temp file to move in.
+ */
+export function writeFileSet(dir: string, files: Array<{ name: string; content?: string; from?: string }>,
+  manifest: (staged: Record<string, string>) => { name: string; content: string }, remove: readonly string[],
+  commit: (renames: () => void) => void): void {
+  const staged: Record<string, string> = {};
+  const temps: string[] = [];
+  try {
+    for (const f of files) {
+      const destination = path.join(dir, f.name);
+      if (f.from !== undefined) { staged[f.name] = f.from; continue; }
+      const tmp = pendingPathFor(destination);
+      pendingTemps.add(tmp);
+      temps.push(tmp);
+      fs.writeFileSync(tmp, f.content ?? "");
+      staged[f.name] = tmp;
+    }
+    const m = manifest(staged);
+    const manifestTmp = pendingPathFor(path.join(dir, m.name));
+    pendingTemps.add(manifestTmp);
+    temps.push(manifestTmp);
+    fs.writeFileSync(manifestTmp, m.content);
+    commit(() => {
+      fs.renameSync(manifestTmp, path.join(dir, m.name));
+      for (const [name, from] of Object.entries(staged)) {
+        fs.renameSync(from, path.join(dir, name));
+        // test hook (DEVELOPERS.md): a write that dies after the manifest and the first file
+        if (process.env.TAILSIFT_TEST_FAIL_AT === "mid-commit") throw new Error("EIO (injected by TAILSIFT_TEST_FAIL_AT)");
+      }
+      for (const name of remove) fs.rmSync(path.join(dir, name), { force: true });
+    });
+  } catch (err) {
+    if (err instanceof TailsiftError) throw err;
+    throw new TailsiftError("output_unwritable", `cannot write the plan folder '${dir}': ${(err as NodeJS.ErrnoException).code ?? String(err)}; check the folder is writable and has room`);
+  } finally {
+    for (const tmp of temps) { fs.rmSync(tmp, { force: true }); pendingTemps.delete(tmp); }
+  }
+}
+
+/** The pending temp name of a destination: `.<name>.<pid>.pending.tmp` beside it. */
+export function pendingPathFor(destination: string): string {
+  return tempPathFor(destination).replace(/\.tmp$/, ".pending.tmp");
 }
 
 /** Where a path leads: its real path and, when it exists, its device and inode. */

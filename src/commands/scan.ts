@@ -102,7 +102,7 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
 
   // the fold of a row reads every column of the input, in file order (or, with --fold-by, the key)
   const fold = foldBy ? groupedFolds(foldBy, policy.folds, policy.seed) : foldOf(source.columns);
-  const totals = await buildLevelTable(engine, { view: source.view, levelColumns, countColumns: numeric, target: targetSpec, fold },
+  const totals = await buildLevelTable(engine, { view: source.view, levelColumns, countColumns: numeric, target: targetSpec, fold, contentColumns: source.columns },
     `scanning ${source.files.length === 1 ? `'${source.files[0]}'` : `${source.files.length} files`}`);
   if (totals.rows === 0) throw new TailsiftError("empty_input", `${describeFiles(source.files)} has a header but no rows; give a file with rows`);
   const skippedRows = await countSkippedRows(engine, source);
@@ -113,6 +113,7 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
     decide: options.decide, levelTableOut: options.levelTableOut,
     input: {
       paths: source.files, rows: totals.rows, bytes: source.bytes, fingerprint: source.fingerprint, format: source.format,
+      ...(totals.content !== undefined ? { contentFingerprint: totals.content } : {}),
       ...(skippedRows !== undefined ? { skippedRows } : {}),
     },
   });

@@ -2,6 +2,7 @@
  * commands/scanCli: what `tailsift scan` and `tailsift report` do around the library calls —
  * choose the output format, write the report folder atomically, print.
  */
+import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import type { Engine } from "../engine/db.js";
@@ -14,7 +15,10 @@ import type { Encoding, Profile } from "../profile/types.js";
 import { redactProfile } from "../profile/redact.js";
 import { renderDecisionRecord } from "../render/markdown.js";
 import { renderTable } from "../render/table.js";
-import { ensureOutputDir, pendingTemps, refuseInputAsOutput, tempPathFor, writeFileAtomic } from "./output.js";
+import { shortenForReading, shortenForRecord } from "../render/shorten.js";
+import { ensureOutputDir, keepCreatedDirs, pendingPathFor, pendingTemps, refuseInputAsOutput, removeStaleTemps, writeFileAtomic, writeFileSet } from "./output.js";
+import { buildManifest, PLAN_MANIFEST } from "../plan/integrity.js";
+import { commitOutputs, testPause, throwIfSignalled } from "../runState.js";
 import { scanLevels, type LevelScanOptions } from "./levels.js";
 import { scan } from "./scan.js";
 
@@ -42,15 +46,15 @@ export async function runScan(inputs: string[], o: ScanCliOptions, io: IO, onEng
   if (o.out) {
     refuseInputAsOutput(o.out, inputs);
     ensureOutputDir(o.out);
+    removeStaleTemps(o.out);
   }
-  // levels.parquet is written to a temp name during the scan and renamed only after the other
-  // three files are in place, so a failed run never pairs a new level table with an old profile
+  // levels.parquet is written to a pending temp name during the scan and moved in with the rest
+  // of the set (writeReportFolder), so a failed run never pairs a new level table with an old profile
   const levelFinal = o.out && !o.redact ? path.join(o.out, LEVEL_FILE_NAME) : undefined;
-  const levelTemp = levelFinal ? tempPathFor(levelFinal).replace(/\.tmp$/, ".pending.tmp") : undefined;
+  const levelTemp = levelFinal ? pendingPathFor(levelFinal) : undefined;
   if (levelTemp) pendingTemps.add(levelTemp);
   try {
     await scanAndWrite(inputs, o, io, onEngine, levelTemp);
-    if (levelTemp && levelFinal) fs.renameSync(levelTemp, levelFinal);
   } finally {
     if (levelTemp) { fs.rmSync(levelTemp, { force: true }); pendingTemps.delete(levelTemp); }
   }
@@ -68,12 +72,15 @@ async function scanAndWrite(inputs: string[], o: ScanCliOptions, io: IO, onEngin
     lockToPaths: [...inputs, ...(o.out ? [o.out] : [])],
     onEngine,
   });
+  await testPause("after-pass", io.stderr);
   const profile = o.redact ? redactProfile(measured, process.env.TAILSIFT_REDACT_KEY || undefined) : measured;
-  if (o.out) await writeReportFolder(profile, o.out);
-  if (o.format === "json") io.stdout(`${JSON.stringify(profile, null, 2)}\n`);
-  else if (o.format === "markdown") io.stdout(renderDecisionRecord(profile));
-  else io.stdout(renderTable(profile));
-  if (o.out && !o.quiet) io.stderr(`wrote ${["profile.json", "decisions.md", "report.html", ...(o.redact ? [] : [LEVEL_FILE_NAME])].map((f) => path.join(o.out!, f)).join(", ")}\n`);
+  if (o.out) await writeReportFolder(profile, o.out, { levelTable: levelTemp, pause: () => testPause("before-commit", io.stderr) });
+  else throwIfSignalled();
+  if (o.format === "json") io.stdout(`${JSON.stringify(shortenForRecord(profile), null, 2)}\n`);
+  else if (o.format === "markdown") io.stdout(renderDecisionRecord(shortenForReading(profile)));
+  else io.stdout(renderTable(shortenForReading(profile)));
+  if (o.out && !o.quiet) io.stderr(`wrote ${["profile.json", "decisions.md", "report.html", ...(o.redact ? [] : [LEVEL_FILE_NAME]), PLAN_MANIFEST].map((f) => path.join(o.out!, f)).join(", ")}\n`);
+  await testPause("after-commit", io.stderr);
 }
 
 /** The HTML renderer loads vega and vega-lite (~0.4 s); load it only when a report is written. */
@@ -82,13 +89,26 @@ async function htmlReport(profile: Profile): Promise<string> {
   return renderHtmlReport(profile);
 }
 
-/** Writes profile.json, decisions.md and report.html, each atomically. */
-export async function writeReportFolder(profile: Profile, dir: string): Promise<void> {
+/**
+ * Writes profile.json, decisions.md, report.html and plan-manifest.json (and levels.parquet when
+ * `levelTable` names the finished table file to move in) as one set: see plan/integrity. A set
+ * without a level table removes an old levels.parquet from the folder.
+ */
+export async function writeReportFolder(profile: Profile, dir: string, options: { levelTable?: string; pause?: () => Promise<void> } = {}): Promise<void> {
   validateProfile(profile);
-  const html = await htmlReport(profile);
-  writeFileAtomic(path.join(dir, "profile.json"), `${JSON.stringify(profile, null, 2)}\n`);
-  writeFileAtomic(path.join(dir, "decisions.md"), renderDecisionRecord(profile));
-  writeFileAtomic(path.join(dir, "report.html"), html);
+  const reading = shortenForReading(profile);
+  const html = await htmlReport(reading);
+  await options.pause?.();
+  const planId = randomUUID();
+  const files = [
+    { name: "profile.json", content: `${JSON.stringify({ ...shortenForRecord(profile), planId }, null, 2)}\n` },
+    { name: "decisions.md", content: renderDecisionRecord(reading) },
+    { name: "report.html", content: html },
+    ...(options.levelTable ? [{ name: LEVEL_FILE_NAME, from: options.levelTable }] : []),
+  ];
+  writeFileSet(dir, files, (staged) => ({ name: PLAN_MANIFEST, content: `${JSON.stringify(buildManifest(staged, planId), null, 2)}\n` }),
+    options.levelTable ? [] : [LEVEL_FILE_NAME], (renames) => commitOutputs(renames));
+  keepCreatedDirs();
 }
 
 
@@ -96,7 +116,7 @@ export async function runReport(profilePath: string, out: string, io: IO): Promi
   const { profile, profilePath: file } = readPlan(profilePath, "report", false);
   refuseInputAsOutput(out, [file]);
   ensureOutputDir(path.dirname(path.resolve(out)));
-  writeFileAtomic(out, await htmlReport(profile));
+  writeFileAtomic(out, await htmlReport(shortenForReading(profile)));
   io.stderr(`wrote ${out}\n`);
 }
 

@@ -141,7 +141,7 @@ export interface EncodeSummary {
   rows: number;
   foldColumn?: string;
   /** Where the input's level table (training target sums, summary counts) came from. */
-  levelSource: "plan level table" | "input pass" | "none";
+  levelSource: "plan level table" | "input pass" | "input pass (content differs from the plan's scan)" | "none";
   /** How mapped values were looked up: ENUM lists (no sort) or joins restored to input order. */
   lookup: "enum" | "join";
   columns: ColumnSummary[];

@@ -6,6 +6,7 @@
  * target sums. Rows with col = -1 are the per-fold totals (all rows), which also carry the count
  * of target values that did not fit the target kind and the non-missing count of numeric columns.
  */
+import { contentHashSql, formatContentFingerprint } from "./contentFingerprint.js";
 import type { Engine } from "./db.js";
 import { foldSql } from "./folds.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
@@ -23,6 +24,8 @@ export interface PassTotals {
   sumY2: number;
   badTargets: number;
   nonMissing: Map<string, number>;
+  /** The content fingerprint, when the plan asked for it. */
+  content?: string;
 }
 
 /** The level-table query. For a binary target y ∈ {0, 1}, so Σy² = Σy and is not summed twice. */
@@ -34,6 +37,7 @@ export function levelPassSql(plan: PassPlan): string {
     `${target.bad} AS __bad`,
     ...plan.levelColumns.map((c, i) => `${quoteIdent(c)} AS __v${i}`),
     ...plan.countColumns.map((c, i) => `${quoteIdent(c)} AS __n${i}`),
+    ...(plan.contentColumns ? [`${contentHashSql(plan.contentColumns)} AS __h`] : []),
   ];
   const sets = [...plan.levelColumns.map((_, i) => `(__v${i}, __fold)`), "(__fold)"];
   const which = plan.levelColumns.length === 0
@@ -42,7 +46,8 @@ export function levelPassSql(plan: PassPlan): string {
   const level = plan.levelColumns.length === 0
     ? "NULL::VARCHAR"
     : plan.levelColumns.length === 1 ? "__v0" : `COALESCE(${plan.levelColumns.map((_, i) => `__v${i}`).join(", ")})`;
-  const counts = plan.countColumns.map((_, i) => `, count(__n${i})::BIGINT AS __nn${i}`).join("");
+  const counts = plan.countColumns.map((_, i) => `, count(__n${i})::BIGINT AS __nn${i}`).join("")
+    + (plan.contentColumns ? ", sum(__h)::HUGEINT AS __content" : "");
   return `SELECT (${which})::INTEGER AS col, ${level} AS level, __fold AS fold, count(*)::BIGINT AS rows,
   count(__y)::BIGINT AS n_y, coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${plan.target?.kind === "binary" ? "coalesce(sum(__y), 0)::DOUBLE" : "coalesce(sum(__y * __y), 0)::DOUBLE"} AS sum_y2,
   count(*) FILTER (WHERE __bad)::BIGINT AS bad${counts}
@@ -78,7 +83,8 @@ async function buildGroupingSetsLevelTable(engine: Engine, plan: PassPlan, doing
 }
 
 async function readPassTotals(engine: Engine, plan: PassPlan): Promise<PassTotals> {
-  const counts = plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("");
+  const counts = plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("")
+    + (plan.contentColumns ? ", sum(__content)::VARCHAR AS content" : "");
   const rows = await engine.rows<Record<string, number>>(
     `SELECT fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, bad::DOUBLE AS bad${counts}
      FROM ${LEVEL_TABLE} WHERE col = -1 GROUP BY ALL ORDER BY fold`, "reading the pass totals");
@@ -93,5 +99,6 @@ async function readPassTotals(engine: Engine, plan: PassPlan): Promise<PassTotal
     totals.badTargets += r.bad ?? 0;
     plan.countColumns.forEach((c, i) => totals.nonMissing.set(c, (totals.nonMissing.get(c) ?? 0) + (r[`nn${i}`] ?? 0)));
   }
+  if (plan.contentColumns) totals.content = formatContentFingerprint(totals.rows, rows.map((r) => (r as unknown as { content: string | null }).content));
   return totals;
 }

@@ -8,6 +8,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { DuckDBInstance, type DuckDBConnection, type DuckDBValue } from "@duckdb/node-api";
+import { throwIfAborted } from "../runState.js";
 import { TailsiftError, wrapEngineError } from "../errors.js";
 import { quoteLiteral, quoteLiteralList } from "./sql.js";
 
@@ -51,6 +52,8 @@ const UNIT_BYTES: Record<string, number> = {
 };
 /** The smallest memory limit accepted: below it DuckDB cannot even read a CSV buffer. */
 export const MIN_MEMORY_BYTES = 64e6;
+/** Above this DuckDB answers with its own parser error ("value is too large"). */
+export const MAX_MEMORY_BYTES = 2 ** 50;
 
 /**
  * Checks a --memory-limit text and returns it in DuckDB's form ("2GB", "512MiB"); "N%" is a
@@ -74,6 +77,7 @@ export function parseMemoryLimit(text: string): string {
     bytes = value * per;
   }
   if (bytes < MIN_MEMORY_BYTES) throw bad("is too small (at least 64MB)");
+  if (!(bytes <= MAX_MEMORY_BYTES)) throw bad("is larger than any machine (at most 1PiB)");
   return `${Math.floor(bytes / 2 ** 20)}MiB`;
 }
 
@@ -165,6 +169,7 @@ export async function openEngine(options: EngineOptions = {}): Promise<Engine> {
   }
   const connection = await instance.connect();
   const run = async (sql: string, doing: string, params?: Record<string, DuckDBValue>) => {
+    throwIfAborted(doing); // a signal that came between queries (runState)
     const began = trace ? Date.now() : 0;
     try {
       await connection.run(sql, params);
@@ -196,6 +201,7 @@ export async function openEngine(options: EngineOptions = {}): Promise<Engine> {
     connection,
     run,
     async rows<T>(sql: string, doing: string, params?: Record<string, DuckDBValue>): Promise<T[]> {
+      throwIfAborted(doing);
       const began = trace ? Date.now() : 0;
       try {
         const reader = await connection.runAndReadAll(sql, params);

@@ -13,5 +13,7 @@ export interface PassPlan {
   target?: TargetSpec;
   /** How each row gets its fold (engine/folds). */
   fold: FoldContract;
+  /** All columns in file order: also compute the content fingerprint (engine/contentFingerprint). */
+  contentColumns?: readonly string[];
 }
 

@@ -11,6 +11,7 @@ import { createHash } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import { isTailsiftError, TailsiftError, wrapEngineError } from "../errors.js";
+import { checkCompressedWhole } from "./compressed.js";
 import type { Engine } from "./db.js";
 import { quoteIdent, quoteLiteral, quoteLiteralList } from "./sql.js";
 
@@ -116,6 +117,8 @@ interface ReadMode {
   /** Record skipped rows in reject_errors / reject_scans (DuckDB refuses it with union_by_name). */
   storeRejects: boolean;
   header: boolean;
+  /** Read with one thread in file order (the raw header: with several threads LIMIT 1 may return any row). */
+  serial?: boolean;
 }
 
 function readerSql(format: InputFormat, files: readonly string[], options: SourceOptions, mode?: Partial<ReadMode>): string {
@@ -130,6 +133,7 @@ function readerSql(format: InputFormat, files: readonly string[], options: Sourc
   if (options.encoding !== undefined) parts.push(`encoding = ${quoteLiteral(normaliseEncoding(options.encoding))}`);
   if (m.ignoreErrors) parts.push("ignore_errors = true");
   if (m.storeRejects) parts.push("store_rejects = true");
+  if (m.serial) parts.push("parallel = false");
   return `read_csv(${parts.join(", ")})`;
 }
 
@@ -213,7 +217,7 @@ async function firstRejectedRow(engine: Engine, format: InputFormat, files: read
 async function checkRawHeaders(engine: Engine, format: InputFormat, files: readonly string[], options: SourceOptions): Promise<void> {
   for (const file of files) {
     const [row] = await reading([file], `reading the header of '${file}'`, () => engine.rows<Record<string, string | null>>(
-      `SELECT * FROM ${readerSql(format, [file], options, { header: false, ignoreErrors: true, storeRejects: false })} LIMIT 1`, `reading the header of '${file}'`));
+      `SELECT * FROM ${readerSql(format, [file], options, { header: false, ignoreErrors: true, storeRejects: false, serial: true })} LIMIT 1`, `reading the header of '${file}'`));
     const names = Object.values(row ?? {}).map((v) => v ?? "");
     const blank = names.findIndex((n) => n.trim() === "");
     if (blank >= 0) throw new TailsiftError("empty_column_name", `column ${blank + 1} of '${file}' has no name in the header; give every column a name`);
@@ -255,7 +259,11 @@ export async function openSource(engine: Engine, inputs: readonly string[], opti
     if (csv) refuseBinary(file, options);
   }
   const reader = readerSql(format, files, options);
-  const columns = csv ? await describeCsv(engine, format, reader, files, options) : await describe(engine, reader, files);
+  const whole = checkCompressedWhole(files);
+  whole.catch(() => undefined); // awaited below; a truncated file explains a failed header read too
+  const columns = await (csv ? describeCsv(engine, format, reader, files, options) : describe(engine, reader, files))
+    .catch(async (err: unknown) => { await whole; throw err; });
+  await whole;
   if (columns.length === 0) throw new TailsiftError("empty_input", `no columns found in ${describeFiles(files)}`);
   const emptyName = columns.find((c) => c.trim() === "");
   if (emptyName !== undefined) throw new TailsiftError("empty_column_name", `${describeFiles(files)} has a column with an empty name; give every column a header`);

@@ -4,6 +4,14 @@
  * `quoteIdent`; values are bound as parameters wherever the statement allows it and otherwise
  * through `quoteLiteral`.
  */
+import { TailsiftError } from "../errors.js";
+
+/** A value with a NUL byte cannot be written as SQL text: one clear line (value shortened, NUL shown as \0). */
+function nulInValue(value: string): TailsiftError {
+  const shown = value.replaceAll("\u0000", "\\0");
+  return new TailsiftError("nul_in_value",
+    `the value '${shown.length > 60 ? `${shown.slice(0, 60)}…` : shown}' holds a NUL byte, which tailsift cannot write into SQL; remove the NUL bytes from the input (e.g. tr -d '\\000')`);
+}
 
 /** Quotes an identifier: "a""b". NUL cannot appear in a DuckDB identifier and is rejected. */
 export function quoteIdent(name: string): string {
@@ -13,7 +21,7 @@ export function quoteIdent(name: string): string {
 
 /** Quotes a string literal: 'it''s'. NUL is rejected (DuckDB strings cannot hold it). */
 export function quoteLiteral(value: string): string {
-  if (value.includes("\u0000")) throw new RangeError("literal contains a NUL character");
+  if (value.includes("\u0000")) throw nulInValue(value);
   return `'${value.replaceAll("'", "''")}'`;
 }
 
@@ -36,7 +44,7 @@ export function quoteIdentBacktick(name: string): string {
 
 /** Spark SQL: string literals escape quotes and backslashes with a backslash. */
 export function quoteLiteralBackslash(value: string): string {
-  if (value.includes("\u0000")) throw new RangeError("literal contains a NUL character");
+  if (value.includes("\u0000")) throw nulInValue(value);
   return `'${value.replaceAll("\\", "\\\\").replaceAll("'", "\\'")}'`;
 }
 

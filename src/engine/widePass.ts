@@ -10,8 +10,11 @@
  * counts of numeric columns ride along as marker entries (col = -2 - j, level '' when present),
  * which are moved into the totals rows' __nn columns and deleted once the pass is done.
  * Level rows carry bad per group, as in the GROUPING SETS pass; their __nn columns are NULL
- * (only the totals rows' __nn are ever read).
+ * (only the totals rows' __nn are ever read). With plan.contentColumns the row's content hash is
+ * computed once, before the unnest, and summed on the totals rows only (__content), as in the
+ * GROUPING SETS pass.
  */
+import { contentHashSql } from "./contentFingerprint.js";
 import type { Engine } from "./db.js";
 import { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
 import { foldSql } from "./folds.js";
@@ -49,11 +52,13 @@ export function widePassSql(plan: PassPlan): string {
     "NULL::VARCHAR",
     ...plan.countColumns.map((c) => `CASE WHEN ${quoteIdent(c)} IS NULL THEN NULL ELSE '' END`),
   ];
+  const content = plan.contentColumns ? `, sum(__h) FILTER (WHERE col = -1)::HUGEINT AS __content` : "";
+  const hash = plan.contentColumns ? `, ${contentHashSql(plan.contentColumns)} AS __h` : "";
   const y2 = plan.target?.kind === "binary" ? "coalesce(sum(__y), 0)::DOUBLE" : "coalesce(sum(__y * __y), 0)::DOUBLE";
   return `SELECT col, level, __fold AS fold, count(*)::BIGINT AS rows, count(__y)::BIGINT AS n_y,
-  coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${y2} AS sum_y2, count(*) FILTER (WHERE __bad)::BIGINT AS bad
-FROM (SELECT __fold, __y, __bad, unnest([${cols.join(", ")}])::INTEGER AS col, unnest(__vals) AS level
-      FROM (SELECT ${foldSql(plan.fold)} AS __fold, ${target.y} AS __y, ${target.bad} AS __bad,
+  coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${y2} AS sum_y2, count(*) FILTER (WHERE __bad)::BIGINT AS bad${content}
+FROM (SELECT __fold, __y, __bad${plan.contentColumns ? ", __h" : ""}, unnest([${cols.join(", ")}])::INTEGER AS col, unnest(__vals) AS level
+      FROM (SELECT ${foldSql(plan.fold)} AS __fold, ${target.y} AS __y, ${target.bad} AS __bad${hash},
               [${values.join(", ")}]::VARCHAR[] AS __vals
             FROM ${plan.view}))
 GROUP BY col, level, __fold`;

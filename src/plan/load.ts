@@ -13,6 +13,7 @@ import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
 import { quoteLiteral } from "../engine/sql.js";
 import { TailsiftError } from "../errors.js";
 import { readProfile } from "../profile/readProfile.js";
+import { verifyPlanSet } from "./integrity.js";
 import type { Profile } from "../profile/types.js";
 
 export const PROFILE_FILE_NAME = "profile.json";
@@ -64,10 +65,10 @@ export function readPlan(plan: string, reader: PlanReader, needsLevels: boolean)
     throw new TailsiftError("plan_without_levels",
       `${reader}: plan folder '${folder}' has no ${LEVEL_FILE_NAME} beside ${PROFILE_FILE_NAME}; ${reader} needs the level table that scan --out writes there (rescan with --out)`);
   }
-  const loaded: LoadedPlan = { folder, profilePath, profile, ...(hasLevels ? { levelsPath } : {}) };
-  // The one place a check that the plan's files belong together (same scan) belongs: call it
-  // here, on `loaded`, so encode, drift and report all refuse a mixed set the same way.
-  return loaded;
+  // the plan's files belong together (one scan, plan/integrity): encode, drift, report and sql all
+  // refuse a mixed set the same way
+  verifyPlanSet(profilePath);
+  return { folder, profilePath, profile, ...(hasLevels ? { levelsPath } : {}) };
 }
 
 /** The plan's level table, summed over folds: (name, level, rows, n_y, sum_y, sum_y2), level NULL = missing. */

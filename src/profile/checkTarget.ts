@@ -13,7 +13,8 @@ export interface TargetRequest { column: string; kind: TargetKind; positive?: st
 
 /**
  * Edge cases: bad values → `target_not_numeric` / `target_needs_positive`; no row with a target →
- * `target_empty`; one value (binary all 0 or all 1, continuous variance ≤ 1e-12·mean²) →
+ * `target_empty`; a sum that overflows to ±∞ → `target_not_finite`; a --positive that matches no
+ * row, or one value (binary all 0 or all 1, continuous variance ≤ 1e-12·mean²) →
  * `target_single_value`. All exit 2.
  */
 export function checkTarget(spec: TargetRequest, totals: TargetTotals): ProfileTarget {
@@ -23,6 +24,12 @@ export function checkTarget(spec: TargetRequest, totals: TargetTotals): ProfileT
       `target '${spec.column}': ${totals.badTargets} values ${what}; ${spec.kind === "continuous" ? "clean them or give --target-kind binary with --positive" : "name the positive class with --positive VALUE"}`);
   }
   if (totals.targetRows === 0) throw new TailsiftError("target_empty", `target '${spec.column}' is missing on every row`);
+  if (!Number.isFinite(totals.sumY) || !Number.isFinite(totals.sumY2)) {
+    throw new TailsiftError("target_not_finite", `target '${spec.column}' has values too large to add up (such as 1e400, or beyond about 1e154 squared); rescale the target or clean those values`);
+  }
+  if (spec.kind === "binary" && spec.positive !== undefined && totals.sumY === 0) {
+    throw new TailsiftError("target_single_value", `no row of target '${spec.column}' is '${spec.positive}' (given by --positive); values are compared exactly, so check the case (e.g. 'Yes' is not 'yes')`);
+  }
   const mean = totals.sumY / totals.targetRows;
   const variance = Math.max(0, totals.sumY2 / totals.targetRows - mean * mean);
   if (spec.kind === "binary" ? totals.sumY === 0 || totals.sumY === totals.targetRows : variance <= 1e-12 * Math.max(1, mean * mean)) {

@@ -18,11 +18,15 @@ export type ColumnRole = "categorical" | "identifier" | "constant" | "numeric" |
 export interface Profile {
   tool: { name: "tailsift"; version: string; engine?: string };
   createdAt: string;
+  /** The id of the plan set written by scan --out (plan/integrity); absent in printed profiles. */
+  planId?: string;
   input: {
     paths: string[];
     rows: number;
     bytes: number;
     fingerprint: string;
+    /** Row count and order-independent sum of row hashes, from the scan's pass (engine/contentFingerprint). */
+    contentFingerprint?: string;
     format?: string;
     skippedRows?: number;
     redacted?: boolean;

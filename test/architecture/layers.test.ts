@@ -11,7 +11,7 @@ import { describe, expect, it } from "vitest";
 
 /** Lowest first. A layer is a folder of src/ or a single file at its root. */
 export const LAYERS: readonly string[] = [
-  "errors.ts", "version.ts", "files",
+  "errors.ts", "version.ts", "runState.ts", "files",
   "stats", "engine", "profile", "plan", "advice", "hierarchy", "evidence", "pipeline", "render", "drift", "encode", "portableSql",
   "commands", "cli.ts", "index.ts",
 ];

@@ -39,7 +39,8 @@ export async function runEncodeCli(argv: string[], io: CliIO): Promise<number> {
     await program.parseAsync(argv, { from: "user" });
     return 0;
   } catch (err) {
-    if (err instanceof CommanderError) return err.exitCode === 0 ? 0 : 2;
+    // issue 17: commander no longer prints its own errors; runCli prints them as one prefixed line
+    if (err instanceof CommanderError) { if (err.exitCode !== 0) io.stderr(`tailsift: ${err.message.replace(/^error: /, "")}\n`); return err.exitCode === 0 ? 0 : 2; }
     if (isTailsiftError(err)) { io.stderr(`tailsift: ${err.message}\n`); return err.exitCode; }
     io.stderr(`tailsift: unexpected error: ${String(err)}\n`);
     return 2;

@@ -50,7 +50,7 @@ describe("identifier-like columns are decided by out-of-fold evidence", () => {
   it("visit_note (unseen rate above 50 %) gets pooled target encoding with its out-of-fold gain shown; chip_id and referral_code are dropped", async () => {
     const out = path.join(dir, "plan");
     fs.mkdirSync(out, { recursive: true });
-    const p = await scan([csv], { target: "no_show", levelTableOut: path.join(out, "levels.parquet") });
+    const p = await scan([csv], { target: "no_show", levelTableOut: path.join(out, "..", "levels.staged.parquet") });
     const note = col(p, "visit_note");
     expect(note.role).toBe("identifier");
     expect(note.unseenRate).toBeGreaterThan(0.5);
@@ -82,7 +82,7 @@ describe("identifier-like columns are decided by out-of-fold evidence", () => {
     expect(referral.evidence!.chosen).toBe("overall-mean");
 
     // encode applies it: brute-force recomputation of every training row from the file itself
-    await writeReportFolder(p, out);
+    await writeReportFolder(p, out, { levelTable: path.join(out, "..", "levels.staged.parquet") }); // moved in as one plan set
     const train = path.join(dir, "train.csv");
     await encode([csv], { plan: out, out: train, mode: "training", keep: ["no_show"] });
     const raw = await withEngine({ threads: 1 }, async (engine) => ({

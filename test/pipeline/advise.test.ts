@@ -25,7 +25,7 @@ describe("no detectable spread is m = ∞ (the prior), never 0", () => {
   it("--decide insurance_plan=target-kfold records weight null, and encode gives every row the other folds' mean", async () => {
     const out = path.join(dir, "plan");
     fs.mkdirSync(out, { recursive: true });
-    const p = await scan([SAMPLE], { target: "no_show", columns: ["insurance_plan"], decide: { "insurance_plan": "target-kfold" }, levelTableOut: path.join(out, "levels.parquet") });
+    const p = await scan([SAMPLE], { target: "no_show", columns: ["insurance_plan"], decide: { "insurance_plan": "target-kfold" }, levelTableOut: path.join(out, "..", "levels.staged.parquet") });
     const c = col(p, "insurance_plan");
     expect(c.target!.prior.weight).toBeNull(); // the fit: no detectable spread between the 5 plans
     const rec = c.recommendation;
@@ -35,7 +35,7 @@ describe("no detectable spread is m = ∞ (the prior), never 0", () => {
 
     // end to end: with m = ∞ every row of fold f is encoded as the mean of y over the other folds
     // (brute-force recomputation from the encoded file's own fold and target columns)
-    await writeReportFolder(p, out);
+    await writeReportFolder(p, out, { levelTable: path.join(out, "..", "levels.staged.parquet") }); // moved in as one plan set
     const train = path.join(dir, "train.csv");
     await encode([SAMPLE], { plan: out, out: train, mode: "training", keep: ["no_show"] });
     const rows = await withEngine({ threads: 1 }, (e) => e.rows<{ fold: number; y: number | null; te: number }>(

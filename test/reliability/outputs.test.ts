@@ -51,7 +51,7 @@ describe("an existing output is replaced only by a complete one", () => {
     const out = path.join(dir, "report");
     expect(await runCli(["scan", input, "--target", "no_show", "--out", out, "--quiet", "--format", "json"], collector().io)).toBe(0);
     const files = fs.readdirSync(out).sort();
-    expect(files).toEqual(["decisions.md", "levels.parquet", "profile.json", "report.html"]);
+    expect(files).toEqual(["decisions.md", "levels.parquet", "plan-manifest.json", "profile.json", "report.html"]);
     const before = Object.fromEntries(files.map((f) => [f, digest(path.join(out, f))]));
 
     const bad = writeFile(dir, "bad.csv", "clinic,species,no_show\nc1,dog,1\nc2,cat,1\n");
