@@ -46,6 +46,7 @@ export function buildProgram(io: CliIO): Command {
     .option("--min-level-rows <n>", "rows a level needs for its own column", integer("--min-level-rows"), 30)
     .option("--coverage <share>", "row share pooled one-hot must cover", fraction("--coverage"), 0.95)
     .option("--collision-budget <share>", "largest colliding row share for hashing", fraction("--collision-budget"), 0.01)
+    .option("--max-hash-bits <n>", "cap of the hash width: at most 2^n buckets", integer("--max-hash-bits"), 20)
     .option("--decide <column=encoding>", "override the advice for a column (repeatable)", decisions)
     .addOption(new Option("--format <format>", "output format").choices(["table", "json", "markdown"]).default("table"))
     .option("--out <dir>", "write profile.json, decisions.md, report.html and levels.parquet to this folder")

@@ -8,7 +8,7 @@ export interface AdvicePolicy {
   coverage: number;
   /** Largest share of rows whose hashed level may share a bucket with another level. */
   collisionBudget: number;
-  /** Hash widths considered: 2^minBits … 2^maxBits. */
+  /** Hash widths considered: 2^minBits … 2^maxBits (maxBits: --max-hash-bits, the cap; advice/hashWidth). */
   hashMinBits: number;
   hashMaxBits: number;
   folds: number;
@@ -21,7 +21,7 @@ export const DEFAULT_POLICY: AdvicePolicy = {
   coverage: 0.95,
   collisionBudget: 0.01,
   hashMinBits: 4,
-  hashMaxBits: 24,
+  hashMaxBits: 20,
   folds: 5,
   seed: 42,
 };

@@ -5,6 +5,7 @@
  */
 import { createRequire } from "node:module";
 import { DEFAULT_POLICY, hashWidths, type AdvicePolicy } from "../advice/policy.js";
+import { checkMaxHashBits, hashingFigures } from "../advice/hashWidth.js";
 import { recommend } from "../advice/recommend.js";
 import { studentTQuantile } from "../stats/studentTQuantile.js";
 import { applyEvidence } from "../evidence/applyEvidence.js";
@@ -14,7 +15,7 @@ import { hierarchyFor } from "../hierarchy/hierarchyFor.js";
 import { applyOverrides } from "../advice/overrides.js";
 import { buildLevelTable, FOLD_HASH_NAME, type PassTotals } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
-import { collisionTable, HASH_NAME } from "../engine/hashing.js";
+import { collisionTable } from "../engine/hashing.js";
 import { looksNumeric, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
 import { leakageSums, type LeakageSums } from "../engine/leakage.js";
 import {
@@ -221,6 +222,7 @@ function validatePolicy(p: AdvicePolicy): void {
   if (!(p.minLevelRows >= 1)) bad(`--min-level-rows must be at least 1 (got ${p.minLevelRows})`);
   if (!(p.coverage > 0 && p.coverage <= 1)) bad(`--coverage must be in (0, 1] (got ${p.coverage})`);
   if (!(p.collisionBudget >= 0 && p.collisionBudget < 1)) bad(`--collision-budget must be in [0, 1) (got ${p.collisionBudget})`);
+  checkMaxHashBits(p);
 }
 
 function checkTarget(spec: TargetSpec, totals: { rows: number; targetRows: number; sumY: number; sumY2: number; badTargets: number }): ProfileTarget {
@@ -309,13 +311,10 @@ async function leakageWithinMemory(engine: Engine, weights: Map<number, number>,
 
 async function addHashing(engine: Engine, columns: ColumnProfile[], policy: AdvicePolicy): Promise<void> {
   const cols = columns.map((c, i) => ({ c, i })).filter(({ c }) => c.role === "categorical" && c.distinct > policy.maxOneHot).map(({ i }) => i);
-  const table = await collisionTable(engine, cols, hashWidths(policy));
+  const table = await collisionTable(engine, cols, hashWidths(policy), "", policy.minLevelRows);
   for (const col of cols) {
     const rows = table.filter((r) => r.col === col);
-    if (rows.length === 0) continue;
     const candidates = rows.map((r) => ({ width: r.width, collisionRowShare: r.rows > 0 ? r.collisionRows / r.rows : 0, collidingLevels: r.collidingLevels ?? 0 }));
-    const chosen = candidates.find((c) => c.collisionRowShare <= policy.collisionBudget) ?? candidates[candidates.length - 1]!;
-    const column = columns[col]!;
-    column.hashing = { width: chosen.width, collisionRowShare: chosen.collisionRowShare, hash: HASH_NAME, candidates };
+    columns[col]!.hashing = hashingFigures(columns[col]!, candidates, policy);
   }
 }

@@ -21,6 +21,8 @@ export interface ScanCliOptions {
   target?: string; positive?: string; targetKind?: "binary" | "continuous";
   columns?: string[]; exclude?: string[]; asCategorical?: string[];
   folds: number; seed: number; top: number; maxOneHot: number; minLevelRows: number; coverage: number; collisionBudget: number;
+  /** --max-hash-bits: the hash width cap as a power of two (policy.hashMaxBits). */
+  maxHashBits?: number;
   decide?: Record<string, Encoding>;
   format: "table" | "json" | "markdown";
   out?: string;
@@ -56,7 +58,7 @@ async function scanAndWrite(inputs: string[], o: ScanCliOptions, io: IO, onEngin
   const measured = o.levels ? await scanLevels(inputs, { ...levelScanOptions(o, onEngine), levelTableOut: levelTemp }) : await scan(inputs, {
     target: o.target, positive: o.positive, targetKind: o.targetKind,
     columns: o.columns, exclude: o.exclude, asCategorical: o.asCategorical, top: o.top,
-    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget },
+    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget, ...(o.maxHashBits !== undefined ? { hashMaxBits: o.maxHashBits } : {}) },
     decide: o.decide,
     memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
     skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter,

@@ -6,6 +6,7 @@
  * their parameters alone define them. Hashing of backoff groups: encode/hashedGroupMap.
  */
 import type { Engine } from "../engine/db.js";
+import { buildCodedGroupMap } from "./codedGroupMap.js";
 import { codesMap, frequencyMap } from "./countMaps.js";
 import { buildHashedGroupMap } from "./hashedGroupMap.js";
 import { INPUT_LEVELS, PLAN_LEVELS } from "./levelTables.js";
@@ -37,6 +38,7 @@ export interface MapContext {
 /** Builds the mapping tables of one column; null when its encoding needs none. */
 export async function buildColumnMap(engine: Engine, column: EncodedColumn, ctx: MapContext): Promise<ColumnMap | null> {
   const { index: i, name, spec } = column;
+  if (spec.encoding === "codes" && spec.grouping) return buildCodedGroupMap(engine, i, name, spec.tableSize, spec.grouping);
   if (spec.encoding === "frequency" || spec.encoding === "codes") {
     if (spec.encoding === "frequency") await frequencyMap(engine, i, name);
     else await codesMap(engine, i, name, spec.tableSize);

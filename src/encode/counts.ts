@@ -8,6 +8,7 @@ import type { Engine } from "../engine/db.js";
 import { quoteLiteral } from "../engine/sql.js";
 import { INPUT_LEVELS, PLAN_LEVELS } from "./levelTables.js";
 import type { ColumnMap } from "./columnMaps.js";
+import { codedGroupFallbackRule } from "./codedGroupMap.js";
 import { hashedGroupFallbackCondition, hashedGroupFallbackRule } from "./hashedGroupMap.js";
 import { structureFallbackCondition, structureFallbackRule } from "./structureCounts.js";
 import { sqlDouble } from "./targetMaps.js";
@@ -47,7 +48,7 @@ export function fallbackRule(column: EncodedColumn, mode: EncodeMode, leaveOneOu
     case "pooled-one-hot": return "pooled and unseen levels → the other column; missing → all columns 0";
     case "hashing": return spec.grouping ? hashedGroupFallbackRule(spec.width) : "missing → NULL (unseen levels hash like any level)";
     case "frequency": return "missing and unseen → share 0";
-    case "codes": return "missing, pooled and unseen → code 0";
+    case "codes": return spec.grouping ? codedGroupFallbackRule : "missing, pooled and unseen → code 0";
     case "target-kfold":
       if (spec.structure) return structureFallbackRule(spec.structure, mode);
       if (mode === "scoring") return "missing and unseen → prior mean p";

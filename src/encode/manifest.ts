@@ -6,7 +6,7 @@ import type { Engine } from "../engine/db.js";
 import { HASH_NAME } from "../engine/hashing.js";
 import { quoteLiteral } from "../engine/sql.js";
 import { pooledLabel } from "./names.js";
-import { hashedGroupManifestParams, structureManifestParams } from "./structureManifest.js";
+import { codedGroupManifestParams, hashedGroupManifestParams, structureManifestParams } from "./structureManifest.js";
 import { foldPriorVar, priorVar } from "./targetMaps.js";
 import type { EncodedColumn, EncodeMode } from "./types.js";
 
@@ -26,7 +26,9 @@ async function paramsOf(engine: Engine, column: EncodedColumn, mode: EncodeMode,
       if (spec.grouping) return hashedGroupManifestParams(spec.width, spec.salt, spec.grouping);
       return { width: spec.width, salt: spec.salt, hash: HASH_NAME, value: "little-endian uint64 of the first 8 bytes of MD5(salt ‖ UTF-8 level), mod width" };
     case "frequency": return { value: "training rows of the level / all training rows" };
-    case "codes": return { tableSize: spec.tableSize, value: "rank by descending training rows, ties by level text in byte order; ranks past tableSize → 0" };
+    case "codes":
+      if (spec.grouping) return codedGroupManifestParams(spec.tableSize, spec.grouping);
+      return { tableSize: spec.tableSize, value: "rank by descending training rows, ties by level text in byte order; ranks past tableSize → 0" };
     case "target-kfold": {
       const p = await variable<number>(engine, priorVar(column.index));
       if (spec.structure) {

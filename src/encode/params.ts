@@ -44,7 +44,7 @@ function positiveInteger(column: string, value: unknown, name: string): number {
 export function encodingSpec(column: ColumnProfile): EncodingSpec | "drop" | "keep" {
   const { encoding, params } = column.recommendation;
   const name = column.name;
-  const groupable = encoding === "target-kfold" || (encoding === "hashing" && params.prior === undefined);
+  const groupable = encoding === "target-kfold" || ((encoding === "hashing" || encoding === "codes") && params.prior === undefined);
   if (!groupable && (params.grouping !== undefined || params.prior !== undefined)) {
     throw new TailsiftError("unsupported_plan",
       `plan column '${name}': encode applies a grouping only with target-kfold or hashing and a hierarchical prior only with target-kfold, not with ${String(encoding)}; rescan with --decide ${name}=${String(encoding)} to use the plain encoding`);
@@ -67,7 +67,10 @@ export function encodingSpec(column: ColumnProfile): EncodingSpec | "drop" | "ke
       return grouping ? { encoding, width, salt, grouping } : { encoding, width, salt };
     }
     case "frequency": return { encoding };
-    case "codes": return { encoding, tableSize: params.tableSize === undefined ? 2 ** 53 : positiveInteger(name, params.tableSize, "tableSize") };
+    case "codes": {
+      const tableSize = params.tableSize === undefined ? 2 ** 53 : positiveInteger(name, params.tableSize, "tableSize"), grouping = hashingGrouping(name, params);
+      return grouping ? { encoding, tableSize, grouping } : { encoding, tableSize };
+    }
     case "target-kfold": {
       const structure = targetStructure(name, params);
       if (structure) return { encoding, structure };

@@ -7,6 +7,7 @@ import { cautionsFor } from "../advice/cautions.js";
 import type { AdvicePolicy } from "../advice/policy.js";
 import { count, pct } from "../advice/words.js";
 import type { ColumnProfile, Recommendation } from "../profile/types.js";
+import { codedGroups } from "./codedGroups.js";
 import { describeParent } from "./parent.js";
 import type { HierarchyFigures, ParentFigures } from "./types.js";
 
@@ -28,6 +29,8 @@ export function applyHierarchy(column: ColumnProfile, hierarchy: HierarchyFigure
   const nonMissing = column.rows - column.missing;
   const deepestFirst = [...hierarchy.parents].reverse();
   const shown = hierarchy.parents.find((p) => JSON.stringify(p.parent) === JSON.stringify(hierarchy.priorParent)) ?? hierarchy.parents[0];
+  // advice/hashWidth: groups that fit the width cap form a closed vocabulary, indexed, not hashed
+  if (b.groups >= 1 && b.groups <= 2 ** policy.hashMaxBits) return codedGroups(column, hierarchy, policy, shown);
   const rec: Recommendation = {
     encoding: "hashing",
     params: {

@@ -116,6 +116,12 @@ export interface ColumnProfile {
     collisionRowShare: number;
     hash?: string;
     candidates: { width: number; collisionRowShare: number; collidingLevels?: number }[];
+    /** advice/hashWidth: collisions are counted over the rows of levels with at least minRows rows. */
+    frequent?: { minRows: number; levels: number; rowShare: number };
+    /** No width up to the cap (2^maxHashBits) is within the budget. */
+    atCap?: boolean;
+    /** The frequent levels fit the cap: index them ("codes") instead of hashing. */
+    index?: boolean;
   };
   /** Structured codes: detected parents and the backoff grouping (issue: grouping advisor). */
   hierarchy?: HierarchyFigures;

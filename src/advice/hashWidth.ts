@@ -1,0 +1,78 @@
+/**
+ * advice/hashWidth: the hash width of a column without a target, and whether to hash at all.
+ *  - The collision budget is judged on the rows of the levels frequent enough to matter: levels
+ *    with at least minLevelRows rows (the same bar a level needs for its own one-hot column). A
+ *    level seen a handful of times carries no weight a model can learn, so two such levels
+ *    sharing a bucket lose nothing; counting them would let a long uniform tail of singletons
+ *    force widths of millions (common practice: judge collisions where the mass is).
+ *  - A closed vocabulary that fits is indexed, not hashed: when the frequent levels number at
+ *    least 1 and at most the cap 2^maxHashBits, the column gets "codes" over them (rank by
+ *    training rows; rarer and unseen levels share code 0). Hashing remains for vocabularies
+ *    wider than the cap, or columns without any frequent level.
+ *  - Widths are capped at 2^maxHashBits (default 2^20, about a million columns, past which a
+ *    hashed input is not a practical model input — common practice); at the cap the colliding
+ *    share is stated as it is, within the budget or not.
+ */
+import { HASH_NAME } from "../engine/hashing.js";
+import { TailsiftError } from "../errors.js";
+import type { ColumnProfile } from "../profile/types.js";
+import type { AdvicePolicy } from "./policy.js";
+
+export interface WidthCandidate { width: number; collisionRowShare: number; collidingLevels?: number }
+
+export interface HashWidthChoice {
+  /** "codes": index the frequent levels; "hashing": hash at `width`. */
+  kind: "codes" | "hashing";
+  /** Levels with at least minLevelRows rows, and their share of non-missing rows. */
+  frequentLevels: number;
+  frequentRowShare: number;
+  width: number;
+  /** Share of the frequent levels' rows that share a bucket with another frequent level. */
+  collisionRowShare: number;
+  /** No candidate width up to the cap is within the budget: the widest is taken. */
+  atCap: boolean;
+}
+
+/** Checks the --max-hash-bits option: an integer from minBits to 30. */
+export function checkMaxHashBits(policy: AdvicePolicy): void {
+  const b = policy.hashMaxBits;
+  if (!Number.isInteger(b) || b < policy.hashMinBits || b > 30) {
+    throw new TailsiftError("bad_option", `--max-hash-bits must be an integer from ${policy.hashMinBits} to 30 (got ${b})`);
+  }
+}
+
+/**
+ * Candidates are the measured widths smallest first (collisions over the frequent levels'
+ * rows); widths past the cap are ignored. Edge cases: no frequent level → nothing can collide
+ * that matters: the smallest width 2^minBits, share 0; frequent levels but no candidate within
+ * the cap → the cap with share 1 (unmeasured, stated as all rows).
+ */
+export function chooseHashWidth(candidates: readonly WidthCandidate[], frequentLevels: number, frequentRowShare: number, policy: AdvicePolicy): HashWidthChoice {
+  const cap = 2 ** policy.hashMaxBits;
+  if (frequentLevels === 0) return { kind: "hashing", frequentLevels, frequentRowShare, width: 2 ** policy.hashMinBits, collisionRowShare: 0, atCap: false };
+  const within = candidates.filter((c) => c.width <= cap);
+  const fits = within.find((c) => c.collisionRowShare <= policy.collisionBudget);
+  const chosen = fits ?? within[within.length - 1] ?? { width: cap, collisionRowShare: 1 };
+  const kind = frequentLevels >= 1 && frequentLevels <= cap ? "codes" : "hashing";
+  return { kind, frequentLevels, frequentRowShare, width: chosen.width, collisionRowShare: chosen.collisionRowShare, atCap: !fits };
+}
+
+/** Levels with at least `minRows` rows and their share of the non-missing rows, from the count-of-counts. */
+export function frequentLevels(countOfCounts: readonly { count: number; levels: number }[], minRows: number): { levels: number; rowShare: number } {
+  let levels = 0, rows = 0, total = 0;
+  for (const c of countOfCounts) {
+    total += c.count * c.levels;
+    if (c.count >= minRows) { levels += c.levels; rows += c.count * c.levels; }
+  }
+  return { levels, rowShare: total > 0 ? rows / total : 0 };
+}
+
+/** The `hashing` figures a column without a target carries (scan's addHashing). */
+export function hashingFigures(column: ColumnProfile, candidates: WidthCandidate[], policy: AdvicePolicy): NonNullable<ColumnProfile["hashing"]> {
+  const f = frequentLevels(column.countOfCounts ?? [], policy.minLevelRows);
+  const c = chooseHashWidth(candidates, f.levels, f.rowShare, policy);
+  return {
+    width: c.width, collisionRowShare: c.collisionRowShare, hash: HASH_NAME, candidates,
+    frequent: { minRows: policy.minLevelRows, levels: c.frequentLevels, rowShare: c.frequentRowShare }, atCap: c.atCap, index: c.kind === "codes",
+  };
+}
