@@ -1,14 +1,15 @@
 /**
  * advice/hashWidth: the hash width of a column without a target, and whether to hash at all.
- *  - The collision budget is judged on the rows of the levels frequent enough to matter: levels
- *    with at least minLevelRows rows (the same bar a level needs for its own one-hot column). A
- *    level seen a handful of times carries no weight a model can learn, so two such levels
- *    sharing a bucket lose nothing; counting them would let a long uniform tail of singletons
- *    force widths of millions (common practice: judge collisions where the mass is).
+ *  - The collision budget is judged on the rows of the levels frequent enough to matter:
+ *    levels with at least minLevelRows rows (the same bar a level needs for its own one-hot
+ *    column), or, when those hold under half the rows, levels seen more than once
+ *    (levelsThatMatter). A level seen once carries no weight a model can learn, so two such
+ *    levels sharing a bucket lose nothing; counting them would let a long uniform tail of
+ *    singletons force widths of millions (common practice: judge collisions where the mass is).
  *  - A closed vocabulary that fits is indexed, not hashed: when the frequent levels number at
  *    least 1 and at most the cap 2^maxHashBits, the column gets "codes" over them (rank by
  *    training rows; rarer and unseen levels share code 0). Hashing remains for vocabularies
- *    wider than the cap, or columns without any frequent level.
+ *    wider than the cap.
  *  - Widths are capped at 2^maxHashBits (default 2^20, about a million columns, past which a
  *    hashed input is not a practical model input — common practice); at the cap the colliding
  *    share is stated as it is, within the budget or not.
@@ -57,22 +58,37 @@ export function chooseHashWidth(candidates: readonly WidthCandidate[], frequentL
   return { kind, frequentLevels, frequentRowShare, width: chosen.width, collisionRowShare: chosen.collisionRowShare, atCap: !fits };
 }
 
-/** Levels with at least `minRows` rows and their share of the non-missing rows, from the count-of-counts. */
-export function frequentLevels(countOfCounts: readonly { count: number; levels: number }[], minRows: number): { levels: number; rowShare: number } {
-  let levels = 0, rows = 0, total = 0;
-  for (const c of countOfCounts) {
-    total += c.count * c.levels;
-    if (c.count >= minRows) { levels += c.levels; rows += c.count * c.levels; }
-  }
-  return { levels, rowShare: total > 0 ? rows / total : 0 };
+/** The frequent levels must hold at least this share of rows, else the bar drops to 2 rows (see levelsThatMatter). */
+export const FREQUENT_MIN_SHARE = 0.5;
+
+/**
+ * The levels that matter, from the count-of-counts: those with at least minLevelRows rows when
+ * they hold at least FREQUENT_MIN_SHARE of the non-missing rows; else (the mass lies below the
+ * bar, so nothing stands out) those seen more than once — a level seen once has nothing to learn
+ * from — and when every level is a singleton, all of them. Returns the bar used, the levels and
+ * their share of non-missing rows (engine/hashing's collisionTable counts the same levels).
+ */
+export function levelsThatMatter(countOfCounts: readonly { count: number; levels: number }[], minLevelRows: number): { minRows: number; levels: number; rowShare: number } {
+  const over = (bar: number) => {
+    let levels = 0, rows = 0, total = 0;
+    for (const c of countOfCounts) {
+      total += c.count * c.levels;
+      if (c.count >= bar) { levels += c.levels; rows += c.count * c.levels; }
+    }
+    return { minRows: bar, levels, rowShare: total > 0 ? rows / total : 0 };
+  };
+  const frequent = over(minLevelRows);
+  if (frequent.levels > 0 && frequent.rowShare >= FREQUENT_MIN_SHARE) return frequent;
+  const repeated = over(Math.min(2, minLevelRows));
+  return repeated.levels > 0 ? repeated : over(1);
 }
 
 /** The `hashing` figures a column without a target carries (scan's addHashing). */
 export function hashingFigures(column: ColumnProfile, candidates: WidthCandidate[], policy: AdvicePolicy): NonNullable<ColumnProfile["hashing"]> {
-  const f = frequentLevels(column.countOfCounts ?? [], policy.minLevelRows);
+  const f = levelsThatMatter(column.countOfCounts ?? [], policy.minLevelRows);
   const c = chooseHashWidth(candidates, f.levels, f.rowShare, policy);
   return {
     width: c.width, collisionRowShare: c.collisionRowShare, hash: HASH_NAME, candidates,
-    frequent: { minRows: policy.minLevelRows, levels: c.frequentLevels, rowShare: c.frequentRowShare }, atCap: c.atCap, index: c.kind === "codes",
+    frequent: { minRows: f.minRows, levels: c.frequentLevels, rowShare: c.frequentRowShare }, atCap: c.atCap, index: c.kind === "codes",
   };
 }

@@ -5,7 +5,7 @@
  */
 import { createRequire } from "node:module";
 import { DEFAULT_POLICY, hashWidths, type AdvicePolicy } from "../advice/policy.js";
-import { checkMaxHashBits, hashingFigures } from "../advice/hashWidth.js";
+import { checkMaxHashBits, hashingFigures, levelsThatMatter } from "../advice/hashWidth.js";
 import { recommend } from "../advice/recommend.js";
 import { studentTQuantile } from "../stats/studentTQuantile.js";
 import { applyEvidence } from "../evidence/applyEvidence.js";
@@ -311,7 +311,7 @@ async function leakageWithinMemory(engine: Engine, weights: Map<number, number>,
 
 async function addHashing(engine: Engine, columns: ColumnProfile[], policy: AdvicePolicy): Promise<void> {
   const cols = columns.map((c, i) => ({ c, i })).filter(({ c }) => c.role === "categorical" && c.distinct > policy.maxOneHot).map(({ i }) => i);
-  const table = await collisionTable(engine, cols, hashWidths(policy), "", policy.minLevelRows);
+  const table = await collisionTable(engine, cols, hashWidths(policy), "", new Map(cols.map((c) => [c, levelsThatMatter(columns[c]!.countOfCounts ?? [], policy.minLevelRows).minRows])));
   for (const col of cols) {
     const rows = table.filter((r) => r.col === col);
     const candidates = rows.map((r) => ({ width: r.width, collisionRowShare: r.rows > 0 ? r.collisionRows / r.rows : 0, collidingLevels: r.collidingLevels ?? 0 }));

@@ -29,13 +29,13 @@ export function hashingRule(column: ColumnProfile, policy: AdvicePolicy): Recomm
       encoding: "codes",
       params: { tableSize: f.levels, order: "descending training frequency", unseen: 0 },
       reasons: [
-        `Codes for the ${count(f.levels)} levels with at least ${count(f.minRows)} rows (${pct(f.rowShare)} of non-missing rows), numbered by training rows; rarer, unseen and missing levels share code 0: ${count(column.distinct)} levels are too many for one-hot and there is no target to encode against.`,
+        `${f.minRows === policy.minLevelRows ? `Codes for the ${count(f.levels)} levels with at least ${count(f.minRows)} rows (${pct(f.rowShare)} of non-missing rows)` : `Codes for the ${count(f.levels)} levels seen at least ${count(f.minRows)} time${f.minRows === 1 ? "" : "s"} (${pct(f.rowShare)} of non-missing rows; levels with ${count(policy.minLevelRows)} rows hold under half of them)`}, numbered by training rows; rarer, unseen and missing levels share code 0: ${count(column.distinct)} levels are too many for one-hot and there is no target to encode against.`,
         `Indexed rather than hashed: the frequent levels form a closed vocabulary that fits within ${count(2 ** policy.hashMaxBits)} (the --max-hash-bits cap), so every one keeps its own code and none collide; hashing would have needed ${count(hashing.width)} buckets for ${pct(hashing.collisionRowShare, 2)} of their rows to collide.`,
       ],
     };
   }
   const within = hashing.collisionRowShare <= policy.collisionBudget;
-  const judged = f ? ` (counted exactly over the rows of the ${count(f.levels)} levels with at least ${count(f.minRows)} rows; rarer levels carry too few rows to matter)` : " (counted exactly over every level)";
+  const judged = f && f.minRows > 1 ? ` (counted exactly over the rows of the ${count(f.levels)} levels with at least ${count(f.minRows)} rows; rarer levels carry too few rows to matter)` : " (counted exactly over every level)";
   return {
     encoding: "hashing",
     params: { width: hashing.width, collisionRowShare: hashing.collisionRowShare, hash: hashing.hash ?? "md5-first8-le", salt: "" },
