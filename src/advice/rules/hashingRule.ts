@@ -4,8 +4,10 @@ import type { AdvicePolicy } from "../policy.js";
 import { count, pct } from "../words.js";
 
 /**
- * Rule 6 (no target, or the last resort): the hashing trick, width = the smallest power of two
- * whose exact colliding row share (computed over the level table) stays within the budget.
+ * Rule 6 (no target, or the last resort): codes when the levels that matter fit within the
+ * width cap (advice/hashWidth: a closed vocabulary is indexed, not hashed); else the hashing
+ * trick, width = the smallest power of two up to the cap whose exact colliding row share over
+ * those levels' rows (computed over the level table) stays within the budget.
  */
 export function hashingRule(column: ColumnProfile, policy: AdvicePolicy): Recommendation {
   const hashing = column.hashing;
