@@ -1,5 +1,8 @@
 /**
- * advice/hashWidth: the hash width of a column without a target, and whether to hash at all.
+ * advice/hashWidth: the hashing rule's measurement, for every categorical column wider than the
+ * one-hot limit (addHashing): the exact colliding row share at each candidate width
+ * (engine/hashing, over the level table), the width chosen, and whether to hash at all.
+ * hashingRule turns `column.hashing` into advice.
  *  - The collision budget is judged on the rows of the levels frequent enough to matter:
  *    levels with at least minLevelRows rows (the same bar a level needs for its own one-hot
  *    column), or, when those hold under half the rows, levels seen more than once
@@ -14,10 +17,10 @@
  *    hashed input is not a practical model input — common practice); at the cap the colliding
  *    share is stated as it is, within the budget or not.
  */
-import { HASH_NAME } from "../engine/hashing.js";
-import { TailsiftError } from "../errors.js";
+import type { Engine } from "../engine/db.js";
+import { collisionTable, HASH_NAME } from "../engine/hashing.js";
 import type { ColumnProfile } from "../profile/types.js";
-import type { AdvicePolicy } from "./policy.js";
+import { hashWidths, type AdvicePolicy } from "./policy.js";
 
 export interface WidthCandidate { width: number; collisionRowShare: number; collidingLevels?: number }
 
@@ -32,14 +35,6 @@ export interface HashWidthChoice {
   collisionRowShare: number;
   /** No candidate width up to the cap is within the budget: the widest is taken. */
   atCap: boolean;
-}
-
-/** Checks the --max-hash-bits option: an integer from minBits to 30. */
-export function checkMaxHashBits(policy: AdvicePolicy): void {
-  const b = policy.hashMaxBits;
-  if (!Number.isInteger(b) || b < policy.hashMinBits || b > 30) {
-    throw new TailsiftError("bad_option", `--max-hash-bits must be an integer from ${policy.hashMinBits} to 30 (got ${b})`);
-  }
 }
 
 /**
@@ -83,7 +78,7 @@ export function levelsThatMatter(countOfCounts: readonly { count: number; levels
   return repeated.levels > 0 ? repeated : over(1);
 }
 
-/** The `hashing` figures a column without a target carries (scan's addHashing). */
+/** The `hashing` figures a column without a target carries (addHashing). */
 export function hashingFigures(column: ColumnProfile, candidates: WidthCandidate[], policy: AdvicePolicy): NonNullable<ColumnProfile["hashing"]> {
   const f = levelsThatMatter(column.countOfCounts ?? [], policy.minLevelRows);
   const c = chooseHashWidth(candidates, f.levels, f.rowShare, policy);
@@ -91,4 +86,16 @@ export function hashingFigures(column: ColumnProfile, candidates: WidthCandidate
     width: c.width, collisionRowShare: c.collisionRowShare, hash: HASH_NAME, candidates,
     frequent: { minRows: f.minRows, levels: c.frequentLevels, rowShare: c.frequentRowShare }, atCap: c.atCap, index: c.kind === "codes",
   };
+}
+
+/** Measures `column.hashing` for every categorical column past the one-hot limit (pipeline/advise, no target). */
+export async function addHashing(engine: Engine, columns: ColumnProfile[], policy: AdvicePolicy): Promise<void> {
+  const cols = columns.map((c, i) => ({ c, i })).filter(({ c }) => c.role === "categorical" && c.distinct > policy.maxOneHot).map(({ i }) => i);
+  const bars = new Map(cols.map((c) => [c, levelsThatMatter(columns[c]!.countOfCounts ?? [], policy.minLevelRows).minRows]));
+  const table = await collisionTable(engine, cols, hashWidths(policy), "", bars);
+  for (const col of cols) {
+    const rows = table.filter((r) => r.col === col);
+    const candidates = rows.map((r) => ({ width: r.width, collisionRowShare: r.rows > 0 ? r.collisionRows / r.rows : 0, collidingLevels: r.collidingLevels ?? 0 }));
+    columns[col]!.hashing = hashingFigures(columns[col]!, candidates, policy);
+  }
 }

@@ -11,11 +11,10 @@
  */
 import type { Engine } from "../engine/db.js";
 import { sqlNumber } from "../engine/sql.js";
-import type { ColumnMap } from "./columnMaps.js";
 import { buildGroupMap, groupTable } from "./groupMap.js";
 import { mainFile } from "./mappingFiles.js";
 import { fullTable } from "./targetMaps.js";
-import type { HashGrouping } from "./types.js";
+import type { ColumnMap, HashGrouping } from "./types.js";
 
 /** What missing, unseen and "other" rows receive, in words. */
 export const codedGroupFallbackRule = "missing → 0; unseen → their deepest parent group's code, else \"other\"; \"other\" and groups past tableSize → 0";

@@ -10,30 +10,12 @@ import { buildCodedGroupMap } from "./codedGroupMap.js";
 import { codesMap, frequencyMap } from "./countMaps.js";
 import { buildHashedGroupMap } from "./hashedGroupMap.js";
 import { INPUT_LEVELS, PLAN_LEVELS } from "./levelTables.js";
-import { foldFile, mainFile, type MappingFile } from "./mappingFiles.js";
+import { foldFile, mainFile } from "./mappingFiles.js";
 import { buildStructureMap } from "./structureMaps.js";
 import { fullTable, fullTargetMap, inputMeanSql, mapTable, outOfFoldMap, sqlDouble } from "./targetMaps.js";
-import type { EncodedColumn, EncodeMode } from "./types.js";
+import type { ColumnMap, EncodedColumn, MapContext } from "./types.js";
 
-export interface ColumnMap {
-  /** The table the output query looks up (keyed by level, or by level and fold). */
-  table: string;
-  fields: string[];
-  perFold: boolean;
-  /** Tables written beside the output (see MappingFile). */
-  files: MappingFile[];
-  /** Backoff (target or hashing) / hierarchical: the per-level table the grouping counts read (encode/structureCounts). */
-  levelTable?: string;
-}
-
-
-export interface MapContext {
-  mode: EncodeMode;
-  leaveOneOut: boolean;
-  folds: number;
-  /** The plan's target mean (p of the scoring mapping). */
-  targetMean: number | undefined;
-}
+export type { ColumnMap, MapContext } from "./types.js";
 
 /** Builds the mapping tables of one column; null when its encoding needs none. */
 export async function buildColumnMap(engine: Engine, column: EncodedColumn, ctx: MapContext): Promise<ColumnMap | null> {

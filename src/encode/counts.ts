@@ -7,12 +7,11 @@
 import type { Engine } from "../engine/db.js";
 import { quoteLiteral } from "../engine/sql.js";
 import { INPUT_LEVELS, PLAN_LEVELS } from "./levelTables.js";
-import type { ColumnMap } from "./columnMaps.js";
 import { codedGroupFallbackRule } from "./codedGroupMap.js";
 import { hashedGroupFallbackCondition, hashedGroupFallbackRule } from "./hashedGroupMap.js";
 import { structureFallbackCondition, structureFallbackRule } from "./structureCounts.js";
 import { sqlDouble } from "./targetMaps.js";
-import type { EncodedColumn, EncodeMode } from "./types.js";
+import type { ColumnMap, EncodedColumn, EncodeMode } from "./types.js";
 
 export interface ColumnCounts { missing: number; unseen: number; fallback: number }
 
@@ -33,6 +32,7 @@ function fallbackCondition(column: EncodedColumn, mode: EncodeMode, leaveOneOut:
     case "codes": return "l.level IS NOT NULL AND coalesce(m.value, 0) = 0";
     case "target-kfold":
       if (spec.structure) return structureFallbackCondition(spec.structure, mode);
+      if (spec.weight === null) return "l.level IS NOT NULL"; // m = ∞: every level gets the prior
       if (mode === "scoring") return "l.level IS NOT NULL AND m.level IS NULL";
       if (leaveOneOut) return `l.level IS NOT NULL AND (m.level IS NULL OR m.n_y - 1 + ${sqlDouble(spec.weight)} <= 0)`;
       return "l.level IS NOT NULL AND (m.level IS NULL OR m.n_other <= 0)";

@@ -14,14 +14,13 @@
 import type { Engine } from "../engine/db.js";
 import { TailsiftError } from "../errors.js";
 import { backoffFoldMap, backoffFullMap, groupsTable } from "./backoffMaps.js";
-import type { ColumnMap, MapContext } from "./columnMaps.js";
 import { buildGroupMap, groupTable } from "./groupMap.js";
 import { hierarchicalFoldMap, hierarchicalFullMap, parentsTable } from "./hierarchicalMaps.js";
 import { INPUT_LEVELS, PLAN_LEVELS } from "./levelTables.js";
 import { foldFile, mainFile, type MappingFile } from "./mappingFiles.js";
 import { setPrior } from "./structureSql.js";
 import { foldPriors, fullTable, inputMeanSql, mapTable, sqlDouble } from "./targetMaps.js";
-import type { EncodedColumn, TargetStructure } from "./types.js";
+import type { ColumnMap, EncodedColumn, MapContext, TargetStructure } from "./types.js";
 
 /** Words for a structure ("backoff grouping", "a hierarchical prior"). */
 export const structureWords = (s: TargetStructure): string => (s.kind === "backoff" ? "backoff grouping" : "a hierarchical prior");

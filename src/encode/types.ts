@@ -2,8 +2,9 @@
  * encode/types: the shapes `tailsift encode` works with — the validated encoding of one column,
  * what the output holds, and the summary printed at the end.
  */
-import type { ParentSpec } from "../hierarchy/types.js";
+import type { ParentSpec } from "../profile/hierarchyTypes.js";
 import type { Encoding } from "../profile/types.js";
+import type { MappingFile } from "./mappingFiles.js";
 
 export type EncodeMode = "training" | "scoring";
 
@@ -18,7 +19,8 @@ export type EncodingSpec =
   | { encoding: "codes"; tableSize: number; grouping?: undefined }
   /** Codes over backoff groups (encode/codedGroupMap). */
   | { encoding: "codes"; tableSize: number; grouping: HashGrouping }
-  | { encoding: "target-kfold"; weight: number; structure?: undefined }
+  /** weight null: no detectable spread, m = ∞ (every level takes the prior). */
+  | { encoding: "target-kfold"; weight: number | null; structure?: undefined }
   | { encoding: "target-kfold"; structure: TargetStructure };
 
 /**
@@ -109,4 +111,24 @@ export interface EncodeSummary {
   dropped: string[];
   /** Input columns the plan does not know (not written unless --keep names them). */
   notInPlan: string[];
+}
+
+/** The mapping tables one column's encoding built (encode/columnMaps). */
+export interface ColumnMap {
+  /** The table the output query looks up (keyed by level, or by level and fold). */
+  table: string;
+  fields: string[];
+  perFold: boolean;
+  /** Tables written beside the output (see MappingFile). */
+  files: MappingFile[];
+  /** Backoff (target or hashing) / hierarchical: the per-level table the grouping counts read (encode/structureCounts). */
+  levelTable?: string;
+}
+
+export interface MapContext {
+  mode: EncodeMode;
+  leaveOneOut: boolean;
+  folds: number;
+  /** The plan's target mean (p of the scoring mapping). */
+  targetMean: number | undefined;
 }

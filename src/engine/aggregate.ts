@@ -7,25 +7,13 @@
  * of target values that did not fit the target kind and the non-missing count of numeric columns.
  */
 import type { Engine } from "./db.js";
+import { foldSql } from "./folds.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
-import type { TargetSpec } from "./target.js";
 import { targetSql } from "./target.js";
+import { buildWideLevelTable, useWidePass } from "./widePass.js";
 
-export const LEVEL_TABLE = "tailsift_levels";
-export const FOLD_HASH_NAME = "duckdb-hash-of-row-text";
-
-export interface PassPlan {
-  view: string;
-  /** Every column of the input in file order: the row identity the fold hash reads. */
-  identityColumns: readonly string[];
-  /** Columns whose levels are counted. */
-  levelColumns: readonly string[];
-  /** Columns for which only the non-missing count is kept (numeric columns). */
-  countColumns: readonly string[];
-  target?: TargetSpec;
-  folds: number;
-  seed: number;
-}
+export { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
+import { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
 
 export interface PassTotals {
   rows: number;
@@ -37,21 +25,11 @@ export interface PassTotals {
   nonMissing: Map<string, number>;
 }
 
-/**
- * The fold of a row: a seeded hash of the row's full text (every column, in file order) modulo K.
- * Rows that are exact duplicates share a fold, so duplicates cannot leak across folds.
- * The same expression is used by `encode`, so scan and encode assign every row the same fold.
- */
-export function foldSql(identityColumns: readonly string[], seed: number, folds: number): string {
-  const cols = identityColumns.map(quoteIdent).join(", ");
-  return `(hash(${sqlNumber(Math.trunc(seed))}::BIGINT, ${cols}) % ${sqlNumber(folds)})::INTEGER`;
-}
-
 /** The level-table query. For a binary target y ∈ {0, 1}, so Σy² = Σy and is not summed twice. */
 export function levelPassSql(plan: PassPlan): string {
   const target = plan.target ? targetSql(plan.target) : { y: "NULL::DOUBLE", bad: "false" };
   const inner = [
-    `${foldSql(plan.identityColumns, plan.seed, plan.folds)} AS __fold`,
+    `${foldSql(plan.fold)} AS __fold`,
     `${target.y} AS __y`,
     `${target.bad} AS __bad`,
     ...plan.levelColumns.map((c, i) => `${quoteIdent(c)} AS __v${i}`),
@@ -81,6 +59,13 @@ export const PASS_BATCH = 200;
 
 /** Runs the pass and returns the totals; the level table stays in DuckDB. */
 export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "scanning the input"): Promise<PassTotals> {
+  // wide inputs: one unnest pass (engine/widePass) builds the same table; totals are read below
+  if (useWidePass(plan)) await buildWideLevelTable(engine, plan, doing);
+  else await buildGroupingSetsLevelTable(engine, plan, doing);
+  return readPassTotals(engine, plan);
+}
+
+async function buildGroupingSetsLevelTable(engine: Engine, plan: PassPlan, doing: string): Promise<void> {
   const first = plan.levelColumns.slice(0, PASS_BATCH);
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TABLE} AS ${levelPassSql({ ...plan, levelColumns: first })}`, doing);
   for (let offset = PASS_BATCH; offset < plan.levelColumns.length; offset += PASS_BATCH) {
@@ -90,11 +75,14 @@ export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "s
       `INSERT INTO ${LEVEL_TABLE} BY NAME SELECT col + ${sqlNumber(offset)} AS col, level, fold, rows, n_y, sum_y, sum_y2, bad FROM (${sql}) WHERE col >= 0`,
       `${doing} (columns ${offset + 1}–${offset + batch.length})`);
   }
+}
+
+async function readPassTotals(engine: Engine, plan: PassPlan): Promise<PassTotals> {
   const counts = plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("");
   const rows = await engine.rows<Record<string, number>>(
     `SELECT fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, bad::DOUBLE AS bad${counts}
      FROM ${LEVEL_TABLE} WHERE col = -1 GROUP BY ALL ORDER BY fold`, "reading the pass totals");
-  const foldRows = Array.from({ length: plan.folds }, () => 0);
+  const foldRows = Array.from({ length: plan.fold.k }, () => 0);
   const totals: PassTotals = { rows: 0, foldRows, targetRows: 0, sumY: 0, sumY2: 0, badTargets: 0, nonMissing: new Map() };
   for (const r of rows) {
     foldRows[r.fold ?? 0] = r.rows ?? 0;

@@ -8,8 +8,7 @@ import { cautionsFor } from "../advice/cautions.js";
 import type { AdvicePolicy } from "../advice/policy.js";
 import { count, pct } from "../advice/words.js";
 import type { ColumnProfile, Recommendation } from "../profile/types.js";
-import { describeParentFigures } from "./applyHierarchy.js";
-import { describeParent } from "./parent.js";
+import { describeParent, describeParentFigures } from "./parent.js";
 import type { HierarchyFigures, ParentFigures } from "./types.js";
 
 export function codedGroups(column: ColumnProfile, hierarchy: HierarchyFigures, policy: AdvicePolicy, shown: ParentFigures | undefined): Recommendation {

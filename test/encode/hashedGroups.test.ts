@@ -157,7 +157,7 @@ describe("hashing of backoff groups", () => {
 
 describe("plans encode refuses", () => {
   it.each([
-    ["a grouping on frequency", { grouping: "backoff" }, "frequency", "unsupported_plan", /a grouping only with target-kfold or hashing/],
+    ["a grouping on frequency", { grouping: "backoff" }, "frequency", "unsupported_plan", /a grouping only with target-kfold, hashing or codes/],
     ["an unknown grouping on hashing", { grouping: "clusters" }, "hashing", "bad_plan", /unknown params.grouping 'clusters'/],
     ["hashing with malformed parents", { parents: [] }, "hashing", "bad_plan", /params.parents must be a non-empty list/],
   ] as const)("%s", async (name, change, encoding, code, message) => {
