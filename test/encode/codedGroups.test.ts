@@ -10,6 +10,10 @@ import fs from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { runCli } from "../../src/cli.js";
+import { withEngine } from "../../src/engine/db.js";
+import { cli as run } from "../levels/helpers.js";
+import { quoteLiteral } from "../../src/engine/sql.js";
+import { validateProfile } from "../../src/profile/schema.js";
 import type { EncodeSummary } from "../../src/encode/types.js";
 import type { Profile } from "../../src/profile/types.js";
 import { collector, tempDir, writeFile } from "../helpers/tmp.js";
@@ -97,5 +101,34 @@ describe("codes over backoff groups", () => {
     const seen = new Set(train);
     expect(later.filter((l) => l !== null && !seen.has(l) && splitGroup(groupOf(l)).depth > 0).length).toBeGreaterThan(0);
     expect(scored.summary.columns[0]!.grouping).toEqual({ kind: "backoff", ...groupCounts(later, groupOf, seen) });
+  });
+
+  it("the params are typed in the schema: a grouped codes plan without parents is refused on read (one line, exit 2)", async () => {
+    const broken = path.join(dir, "plan-no-parents");
+    fs.cpSync(planDir, broken, { recursive: true });
+    const file = path.join(broken, "profile.json");
+    const p = JSON.parse(fs.readFileSync(file, "utf8")) as Profile;
+    expect(() => validateProfile(p)).not.toThrow();
+    const col = p.columns.find((c) => c.name === "postcode")!;
+    const { parents: _dropped, ...rest } = col.recommendation.params as Record<string, unknown>;
+    col.recommendation = { ...col.recommendation, params: rest as never };
+    fs.writeFileSync(file, JSON.stringify(p));
+    const r = await run(["encode", laterFile, "--plan", broken, "--out", path.join(dir, "never.csv"), "--for", "scoring"]);
+    expect(r.code).toBe(2);
+    expect(r.err.trim().split("\n")).toHaveLength(1);
+    expect(r.err).toMatch(/recommendation\/params must have required property 'parents'/);
+    expect(fs.existsSync(path.join(dir, "never.csv"))).toBe(false);
+  });
+
+  it("tailsift sql --plan scores the scanned plan: its postcode expression gives encode's codes (DuckDB, ansi)", async () => {
+    const r = await run(["sql", "--plan", planDir, "--from", "later_rows", "--inline-max", "100000"]);
+    expect(r.code, r.err).toBe(0);
+    const scored = await encodeRows(laterFile, "scoring", "later-scoring-sql");
+    const rows = await withEngine({ threads: 1 }, async (e) => {
+      await e.run(`CREATE TABLE later_rows AS SELECT * FROM read_csv(${quoteLiteral(laterFile)}, all_varchar = true, header = true)`, "loading");
+      return e.rows<Record<string, unknown>>(r.out.trim().replace(/;$/, ""), "scoring SQL");
+    });
+    expect(rows.map((x) => Number(x.postcode))).toEqual(scored.rows.map((x) => Number(x.postcode)));
+    expect(rows.map((x) => Number(x.postcode))).toEqual(later.map(codeOf));
   });
 });
