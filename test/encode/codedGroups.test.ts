@@ -14,6 +14,7 @@ import { withEngine } from "../../src/engine/db.js";
 import { cli as run } from "../levels/helpers.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
 import { validateProfile } from "../../src/profile/schema.js";
+import { formatCount } from "../../src/render/format.js";
 import type { EncodeSummary } from "../../src/encode/types.js";
 import type { Profile } from "../../src/profile/types.js";
 import { collector, tempDir, writeFile } from "../helpers/tmp.js";
@@ -130,5 +131,13 @@ describe("codes over backoff groups", () => {
     });
     expect(rows.map((x) => Number(x.postcode))).toEqual(scored.rows.map((x) => Number(x.postcode)));
     expect(rows.map((x) => Number(x.postcode))).toEqual(later.map(codeOf));
+  });
+
+  it("the terminal table shows the index: backoff groups and the number of codes", async () => {
+    const r = await run(["scan", trainFile, "--format", "table", "--no-progress"]);
+    expect(r.code, r.err).toBe(0);
+    const line = r.out.split("\n").find((l) => l.includes("postcode"))!;
+    expect(line).toContain(`codes`);
+    expect(line).toContain(`backoff groups, ${formatCount(params.tableSize as number)} codes`);
   });
 });
