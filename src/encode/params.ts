@@ -6,7 +6,7 @@
 import { TailsiftError } from "../errors.js";
 import { HASH_NAME } from "../engine/hashing.js";
 import type { ColumnProfile } from "../profile/types.js";
-import { hashingGrouping, targetStructure } from "./structureParams.js";
+import { hashingGrouping, targetStructure } from "./hierarchyParams.js";
 import type { EncodingSpec } from "./types.js";
 
 function bad(column: string, what: string): TailsiftError {
@@ -38,7 +38,7 @@ function positiveInteger(column: string, value: unknown, name: string): number {
  * detectable spread: every level takes the prior); target-kfold with
  * `grouping: "backoff"` or `prior: "hierarchical"`, and hashing or codes with `grouping:
  * "backoff"` (the advice for identifier-like nesting codes without a target: codes when the groups
- * fit the width cap, hashing past it), are read by encode/structureParams.
+ * fit the width cap, hashing past it), are read by encode/hierarchyParams.
  * `maxHashBits` is the plan's recorded cap (settings.maxHashBits, --max-hash-bits): a hashing
  * width above 2^maxHashBits is refused; undefined (a profile written before the cap) = no check.
  * @throws TailsiftError `bad_plan` for a missing or malformed parameter, a hash width past the

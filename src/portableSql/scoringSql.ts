@@ -20,7 +20,13 @@ import type { ScoringColumn, ScoringItem } from "./planMaps.js";
 
 export const DEFAULT_INLINE_MAX = 64;
 
-export interface ScoringSqlOptions { from: string; dialect: Dialect; inlineMax: number }
+export interface ScoringSqlOptions {
+  from: string;
+  dialect: Dialect;
+  inlineMax: number;
+  /** encode's raw output names (`encode --raw-names`) instead of its safe names. */
+  rawNames?: boolean;
+}
 
 export interface MappingTable extends LookupTable { column: string; role: string }
 
@@ -87,7 +93,7 @@ export function scoringSql(items: readonly ScoringItem[], o: ScoringSqlOptions):
     exprs.push(...encodedSql(d, item.scoring, tables));
     raw.push(...item.scoring.outputs);
   }
-  const names = scoringOutputNames(raw);
+  const names = scoringOutputNames(raw, o.rawNames ?? false);
   const load = all.filter((t) => !t.inline);
   const header = [
     `-- tailsift scoring query (${d.name}): the plan's scoring encodings, as tailsift encode --for scoring applies them`,
@@ -95,7 +101,7 @@ export function scoringSql(items: readonly ScoringItem[], o: ScoringSqlOptions):
     ...load.map((t) => `--   ${t.name}: ${t.rows.length} rows, '${t.column}' ${t.role}, from ${t.name}.csv (--mappings-out)`),
   ];
   const select = exprs.map((e, k) => `${e} AS ${d.ident(names[k]!)}`).join(",\n  ");
-    // ClickHouse 18.16 over a Distributed table loses track of expressions holding scalar
+  // ClickHouse 18.16 over a Distributed table loses track of expressions holding scalar
   // subqueries ("Not found column"): read the rows in a derived table, look up on the initiator
   const from = d.name === "clickhouse" ? `(SELECT * FROM ${qualifiedName(o.from, d)})` : qualifiedName(o.from, d);
   return { sql: `${header.join("\n")}\nSELECT\n  ${select}\nFROM ${from} AS s\n`, tables: load };
