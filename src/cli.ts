@@ -50,6 +50,7 @@ export function buildProgram(io: CliIO): Command {
     .option("--min-level-rows <n>", "rows a level needs for its own column", integer("--min-level-rows"), 30)
     .option("--coverage <share>", "row share pooled one-hot must cover", fraction("--coverage"), 0.95)
     .option("--collision-budget <share>", "largest colliding row share for hashing", fraction("--collision-budget"), 0.01)
+    .option("--max-hash-bits <n>", "cap of the hash width: at most 2^n buckets (default 20)", integer("--max-hash-bits"))
     .option("--min-gain <share>", "share of the overall mean's out-of-fold loss a candidate must save (default 0.001)", fraction("--min-gain"))
     .option("--decide <column=encoding>", "override the advice for a column (repeatable)", decisions)
     .addOption(new Option("--format <format>", "output format").choices(["table", "json", "markdown"]).default("table"))

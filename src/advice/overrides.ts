@@ -47,7 +47,7 @@ function withParams(column: ColumnProfile, encoding: Encoding, policy: AdvicePol
       return { encoding, params: { width, collisionRowShare: column.hashing?.collisionRowShare ?? null, hash: "md5-first8-le", salt: "" }, reasons };
     }
     case "frequency": return { encoding, params: { tableSize: column.distinct, unseen: 0 }, reasons };
-    case "codes": return { encoding, params: { tableSize: column.distinct, order: "descending training frequency", unseen: 0 }, reasons };
+    case "codes": return { encoding, params: { tableSize: Math.max(1, column.distinct), order: "descending training frequency", unseen: 0 }, reasons };
   }
 }
 

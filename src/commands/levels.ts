@@ -15,7 +15,7 @@
  *   keeps the --folds value (the K that target-kfold would use) and settings.levelFolds = 1.
  */
 import fs from "node:fs";
-import { DEFAULT_POLICY, type AdvicePolicy } from "../advice/policy.js";
+import { DEFAULT_POLICY, validatePolicy, type AdvicePolicy } from "../advice/policy.js";
 import { withEngine, type Engine } from "../engine/db.js";
 import { externalFolds } from "../engine/folds.js";
 import { inferKind, levelTableFromLoaded, loadLevelTables } from "../engine/levelInput.js";
@@ -58,6 +58,7 @@ async function resolveTargetFromSums(engine: Engine, o: LevelScanOptions, totals
  */
 export async function scanLevels(files: string[], options: LevelScanOptions = {}): Promise<Profile> {
   if (files.length === 0) throw new TailsiftError("bad_usage", "no level table given; name at least one file");
+  validatePolicy({ ...DEFAULT_POLICY, ...options.policy });
   return withEngine(options, async (engine) => {
     options.onEngine?.(engine);
     try {

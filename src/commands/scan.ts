@@ -3,7 +3,7 @@
  * table with the fold contract (engine/folds), checks the target, and hands the level table to
  * the decision pipeline (pipeline/advise), which measures and advises every column.
  */
-import { DEFAULT_POLICY, type AdvicePolicy } from "../advice/policy.js";
+import { DEFAULT_POLICY, validatePolicy, type AdvicePolicy } from "../advice/policy.js";
 import { buildLevelTable } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { checkFoldBy, groupedFolds, rowHashFolds, type FoldContract } from "../engine/folds.js";
@@ -46,16 +46,6 @@ function checkNames(source: Source, names: readonly string[] | undefined, option
       throw new TailsiftError("unknown_column", `${option}: column '${name}' not found; columns are: ${source.columns.join(", ")}`);
     }
   }
-}
-
-/** The advice options other than the folds (engine/folds checks --folds and --seed). */
-export function validatePolicy(p: AdvicePolicy): void {
-  const bad = (what: string) => { throw new TailsiftError("bad_option", what); };
-  if (!Number.isInteger(p.maxOneHot) || p.maxOneHot < 2) bad(`--max-one-hot must be an integer of at least 2 (got ${p.maxOneHot})`);
-  if (!(p.minLevelRows >= 1)) bad(`--min-level-rows must be at least 1 (got ${p.minLevelRows})`);
-  if (!(p.coverage > 0 && p.coverage <= 1)) bad(`--coverage must be in (0, 1] (got ${p.coverage})`);
-  if (!(p.collisionBudget >= 0 && p.collisionBudget < 1)) bad(`--collision-budget must be in [0, 1) (got ${p.collisionBudget})`);
-  if (!(p.minGain >= 0 && p.minGain < 1)) bad(`--min-gain must be in [0, 1) (got ${p.minGain})`);
 }
 
 export async function scan(inputs: readonly string[], options: ScanOptions = {}): Promise<Profile> {

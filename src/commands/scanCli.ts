@@ -5,6 +5,7 @@
 import { randomUUID } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
+import { DEFAULT_POLICY, validatePolicy, type AdvicePolicy } from "../advice/policy.js";
 import type { Engine } from "../engine/db.js";
 import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
 import { TailsiftError } from "../errors.js";
@@ -26,6 +27,8 @@ export interface ScanCliOptions {
   target?: string; positive?: string; targetKind?: "binary" | "continuous";
   columns?: string[]; exclude?: string[]; asCategorical?: string[];
   folds: number; seed: number; top: number; maxOneHot: number; minLevelRows: number; coverage: number; collisionBudget: number;
+  /** --max-hash-bits: the hash width cap as a power of two (policy.hashMaxBits). */
+  maxHashBits?: number;
   minGain?: number;
   decide?: Record<string, Encoding>;
   format: "table" | "json" | "markdown";
@@ -42,7 +45,17 @@ export interface ScanCliOptions {
 
 interface IO { stdout: (t: string) => void; stderr: (t: string) => void }
 
+/** The advice options the command line gives (scan and scan --levels alike). */
+function policyOptions(o: ScanCliOptions): Partial<AdvicePolicy> {
+  return {
+    folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget,
+    ...(o.minGain !== undefined ? { minGain: o.minGain } : {}), ...(o.maxHashBits !== undefined ? { hashMaxBits: o.maxHashBits } : {}),
+  };
+}
+
 export async function runScan(inputs: string[], o: ScanCliOptions, io: IO, onEngine: (e: Engine | null) => void): Promise<void> {
+  // the same check scan and scanLevels make, before the output folder exists: a bad option leaves nothing behind
+  validatePolicy({ ...DEFAULT_POLICY, ...policyOptions(o) });
   if (o.out) {
     refuseInputAsOutput(o.out, inputs);
     ensureOutputDir(o.out);
@@ -64,7 +77,7 @@ async function scanAndWrite(inputs: string[], o: ScanCliOptions, io: IO, onEngin
   const measured = o.levels ? await scanLevels(inputs, { ...levelScanOptions(o, onEngine), levelTableOut: levelTemp }) : await scan(inputs, {
     target: o.target, positive: o.positive, targetKind: o.targetKind,
     columns: o.columns, exclude: o.exclude, asCategorical: o.asCategorical, top: o.top,
-    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget, ...(o.minGain !== undefined ? { minGain: o.minGain } : {}) },
+    policy: policyOptions(o),
     decide: o.decide, ...(o.foldBy !== undefined ? { foldBy: o.foldBy } : {}),
     memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
     skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter,
@@ -130,7 +143,7 @@ export function levelScanOptions(o: ScanCliOptions, onEngine: (e: Engine | null)
   if (refused.length > 0) throw new TailsiftError("bad_option", `${refused.join(", ")} do${refused.length === 1 ? "es" : ""} not apply to --levels: level tables are already counted`);
   return {
     target: o.target, positive: o.positive, targetKind: o.targetKind, columns: o.columns, exclude: o.exclude, top: o.top,
-    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget, ...(o.minGain !== undefined ? { minGain: o.minGain } : {}) },
+    policy: policyOptions(o),
     decide: o.decide, memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir, delimiter: o.delimiter,
     levelTableOut: o.out && !o.redact ? path.join(o.out, LEVEL_FILE_NAME) : undefined, onEngine,
   };

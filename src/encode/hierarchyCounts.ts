@@ -33,7 +33,7 @@ export function hierarchyFallbackRule(s: TargetStructure, mode: EncodeMode): str
 /** The grouping a column's levels go through: a target structure, a hashed backoff grouping, or none. */
 export function groupingOf(spec: EncodingSpec): TargetStructure | HashGrouping | undefined {
   if (spec.encoding === "target-kfold") return spec.structure;
-  return spec.encoding === "hashing" ? spec.grouping : undefined;
+  return spec.encoding === "hashing" || spec.encoding === "codes" ? spec.grouping : undefined;
 }
 
 /**

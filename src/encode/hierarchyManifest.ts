@@ -26,6 +26,16 @@ export function hashedGroupManifestParams(width: number, salt: string, g: HashGr
   };
 }
 
+/** The parameters of codes over backoff groups (encode/codedGroupMap): groups numbered 1..tableSize, "other" = 0. */
+export function codedGroupManifestParams(tableSize: number, g: HashGrouping): Record<string, unknown> {
+  return {
+    tableSize, structure: "backoff", minRows: g.minRows, otherIndex: 0,
+    depths: depthsOf(g.parents), grouping: GROUPING_WORDS,
+    unseen: "a level not in file (or seen = false): the largest depth d such that file has a row (d, its parent under depths[d − 1]), taking that row's value; none → \"other\" (0)",
+    value: "group code = rank of the group by descending plan rows, ties by depth then group_key in byte order; \"other\" (depth −1), ranks past tableSize and missing → 0",
+  };
+}
+
 /**
  * The parameters; `p` = the prior of the full-data values, `foldPriors` = the other-folds
  * priors of a training run (null when scoring).

@@ -36,21 +36,24 @@ function positiveInteger(column: string, value: unknown, name: string): number {
  * writes no column; codes without `tableSize` number every level; target-kfold needs a finite
  * weight m ≥ 0 (0 = raw means, with the prior used where a level has no rows) or null (m = ∞, no
  * detectable spread: every level takes the prior); target-kfold with
- * `grouping: "backoff"` or `prior: "hierarchical"`, and hashing with `grouping: "backoff"` (the
- * advice for identifier-like nesting codes without a target), are read by encode/hierarchyParams.
- * @throws TailsiftError `bad_plan` for a missing or malformed parameter, an unknown encoding or
- *   grouping; `unsupported_plan` for a grouping on encodings other than target-kfold and hashing,
+ * `grouping: "backoff"` or `prior: "hierarchical"`, and hashing or codes with `grouping:
+ * "backoff"` (the advice for identifier-like nesting codes without a target: codes when the groups
+ * fit the width cap, hashing past it), are read by encode/hierarchyParams.
+ * `maxHashBits` is the plan's recorded cap (settings.maxHashBits, --max-hash-bits): a hashing
+ * width above 2^maxHashBits is refused; undefined (a profile written before the cap) = no check.
+ * @throws TailsiftError `bad_plan` for a missing or malformed parameter, a hash width past the
+ *   plan's cap, an unknown encoding or grouping; `unsupported_plan` for a grouping on encodings other than target-kfold, hashing and codes,
  *   or a hierarchical prior on one other than target-kfold.
  */
-export function encodingSpec(column: ColumnProfile): EncodingSpec | "drop" | "keep" {
+export function encodingSpec(column: ColumnProfile, maxHashBits?: number): EncodingSpec | "drop" | "keep" {
   const { encoding } = column.recommendation;
   // the plan is a file a user may have edited: its parameters are read as unknown and checked
   const params: Record<string, unknown> = Object.fromEntries(Object.entries(column.recommendation.params));
   const name = column.name;
-  const groupable = encoding === "target-kfold" || (encoding === "hashing" && params.prior === undefined);
+  const groupable = encoding === "target-kfold" || ((encoding === "hashing" || encoding === "codes") && params.prior === undefined);
   if (!groupable && (params.grouping !== undefined || params.prior !== undefined)) {
     throw new TailsiftError("unsupported_plan",
-      `plan column '${name}': encode applies a grouping only with target-kfold or hashing and a hierarchical prior only with target-kfold, not with ${String(encoding)}; rescan with --decide ${name}=${String(encoding)} to use the plain encoding`);
+      `plan column '${name}': encode applies a grouping only with target-kfold, hashing or codes and a hierarchical prior only with target-kfold, not with ${String(encoding)}; rescan with --decide ${name}=${String(encoding)} to use the plain encoding`);
   }
   switch (encoding) {
     case "drop": return "drop";
@@ -67,10 +70,14 @@ export function encodingSpec(column: ColumnProfile): EncodingSpec | "drop" | "ke
       const salt = params.salt ?? "";
       if (typeof salt !== "string") throw bad(name, "params.salt must be text");
       const width = positiveInteger(name, params.width, "width"), grouping = hashingGrouping(name, params);
+      if (maxHashBits !== undefined && width > 2 ** maxHashBits) throw bad(name, `params.width ${width} is above the plan's hash width cap 2^${maxHashBits} (settings.maxHashBits, --max-hash-bits)`);
       return grouping ? { encoding, width, salt, grouping } : { encoding, width, salt };
     }
     case "frequency": return { encoding };
-    case "codes": return { encoding, tableSize: params.tableSize === undefined ? 2 ** 53 : positiveInteger(name, params.tableSize, "tableSize") };
+    case "codes": {
+      const tableSize = params.tableSize === undefined ? 2 ** 53 : positiveInteger(name, params.tableSize, "tableSize"), grouping = hashingGrouping(name, params);
+      return grouping ? { encoding, tableSize, grouping } : { encoding, tableSize };
+    }
     case "target-kfold": {
       const structure = targetStructure(name, params);
       if (structure) return { encoding, structure };

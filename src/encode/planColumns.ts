@@ -57,7 +57,7 @@ export function planColumns(profile: Profile, inputColumns: readonly string[], o
   if (o.mode === "training" && target !== undefined && !present.has(target)) {
     throw new TailsiftError("target_missing", `--for training needs the plan's target column '${target}' in the input (the out-of-fold encoding is computed from it); use --for scoring for data without the target`);
   }
-  const specs = new Map(profile.columns.map((c) => [c.name, encodingSpec(c)]));
+  const specs = new Map(profile.columns.map((c) => [c.name, encodingSpec(c, profile.settings.maxHashBits)]));
   const needed = new Set(profile.columns.filter((c) => c.name !== target && specs.get(c.name) !== "drop").map((c) => c.name));
   if (o.mode === "training") for (const c of o.foldKeys) needed.add(c);
   const missing = [...needed].filter((c) => !present.has(c));

@@ -16,7 +16,9 @@ export type EncodingSpec =
   | { encoding: "hashing"; width: number; salt: string; grouping?: undefined }
   | { encoding: "hashing"; width: number; salt: string; grouping: HashGrouping }
   | { encoding: "frequency" }
-  | { encoding: "codes"; tableSize: number }
+  | { encoding: "codes"; tableSize: number; grouping?: undefined }
+  /** Codes over backoff groups (encode/codedGroupMap). */
+  | { encoding: "codes"; tableSize: number; grouping: HashGrouping }
   /** weight null: no detectable spread, m = ∞ (every level takes the prior). */
   | { encoding: "target-kfold"; weight: number | null; structure?: undefined }
   | { encoding: "target-kfold"; structure: TargetStructure };

@@ -21,14 +21,19 @@ export function bucketSql(levelExpr: string, width: number, salt = ""): string {
   return `(md5_number_upper(${text}) % ${sqlNumber(width)}::UBIGINT)::BIGINT`;
 }
 
-/** Colliding levels and rows per column and width (missing values are not hashed). */
-export async function collisionTable(engine: Engine, cols: readonly number[], widths: readonly number[], salt = ""): Promise<CollisionRow[]> {
+/**
+ * Colliding levels and rows per column and width (missing values are not hashed). With
+ * `minRows` (per column) only levels with at least that many rows are counted (advice/hashWidth:
+ * the levels frequent enough to matter); a column absent from the map counts every level.
+ */
+export async function collisionTable(engine: Engine, cols: readonly number[], widths: readonly number[], salt = "", minRows?: ReadonlyMap<number, number>): Promise<CollisionRow[]> {
   if (cols.length === 0 || widths.length === 0) return [];
   const widthValues = widths.map((w) => `(${sqlNumber(w)}::UBIGINT)`).join(", ");
   const text = salt === "" ? "level" : `(${quoteLiteral(salt)} || level)`;
   return engine.rows<CollisionRow>(
     `WITH h AS (SELECT col, md5_number_upper(${text}) AS h, rows FROM ${LEVEL_TOTALS}
-                WHERE level IS NOT NULL AND col IN (${cols.map((c) => sqlNumber(c)).join(", ")})),
+                WHERE level IS NOT NULL AND col IN (${cols.map((c) => sqlNumber(c)).join(", ")})
+                  AND rows >= CASE col ${cols.map((c) => `WHEN ${sqlNumber(c)} THEN ${sqlNumber(minRows?.get(c) ?? 0)}`).join(" ")} ELSE 0 END),
           ws(width) AS (VALUES ${widthValues}),
           b AS (SELECT col, width, h % width AS bucket, count(*) AS levels, sum(rows) AS rows FROM h CROSS JOIN ws GROUP BY ALL)
      SELECT col, width::DOUBLE AS width, sum(levels) FILTER (WHERE levels > 1)::DOUBLE AS collidingLevels,

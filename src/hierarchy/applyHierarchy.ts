@@ -1,22 +1,19 @@
 /**
  * hierarchy/applyHierarchy: the advice for an identifier-like column without a target when its
  * codes nest. A postcode seen once per row cannot be encoded level by level, but rare codes can
- * back off to a well-filled parent (its district), and those groups can be hashed like levels.
+ * back off to a well-filled parent (its district), and those groups are numbered (codes, when
+ * they fit the width cap: hierarchy/codedGroups) or hashed like levels (past the cap).
  */
 import { cautionsFor } from "../advice/cautions.js";
 import type { AdvicePolicy } from "../advice/policy.js";
 import { count, pct } from "../advice/words.js";
 import type { ColumnProfile, Recommendation } from "../profile/types.js";
-import { describeParent } from "./parent.js";
-import type { HierarchyFigures, ParentFigures } from "./types.js";
-
-/** "the first 3 characters: 412 groups, 97.0 % of rows in groups of at least 30 rows, median group 233 rows". */
-export function describeParentFigures(f: ParentFigures, minRows: number): string {
-  return `${describeParent(f.parent)}: ${count(f.groups)} groups, ${pct(f.wellFilledRowShare)} of rows in groups of at least ${count(minRows)} rows, median group ${count(f.medianGroupRows)} rows`;
-}
+import { codedGroups } from "./codedGroups.js";
+import { describeParent, describeParentFigures } from "./parent.js";
+import type { HierarchyFigures } from "./types.js";
 
 /**
- * Returns the backoff-then-hashing recommendation, or the column's existing recommendation when
+ * Returns the backoff-then-codes (or, past the cap, backoff-then-hashing) recommendation, or the column's existing recommendation when
  * it should stand: a user override, a role other than identifier, a hierarchy that is not useful
  * (a counter, or backoff covering under half the rows) or no measured hashing of the groups.
  */
@@ -28,6 +25,8 @@ export function applyHierarchy(column: ColumnProfile, hierarchy: HierarchyFigure
   const nonMissing = column.rows - column.missing;
   const deepestFirst = [...hierarchy.parents].reverse();
   const shown = hierarchy.parents.find((p) => JSON.stringify(p.parent) === JSON.stringify(hierarchy.priorParent)) ?? hierarchy.parents[0];
+  // advice/hashWidth: groups that fit the width cap form a closed vocabulary, indexed, not hashed
+  if (b.groups >= 1 && b.groups <= 2 ** policy.hashMaxBits) return codedGroups(column, hierarchy, policy, shown);
   const rec: Recommendation = {
     encoding: "hashing",
     params: {

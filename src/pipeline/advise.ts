@@ -10,7 +10,7 @@
  *   4. rules (advice/recommend, in the order of RULES) → the rules' answer
  *   5. with a target: out-of-fold evidence (evidence/evidenceFor) may replace the rules' answer
  *      (evidence/applyEvidence); without one: a useful hierarchy turns an identifier's drop into
- *      backoff-then-hashing (hierarchy/applyHierarchy)
+ *      backoff then codes, or hashing past the width cap (hierarchy/applyHierarchy)
  *   6. the user's --decide overrides (advice/overrides), keeping what was advised
  *   7. notes that hold for the final decision (evidence not computed, one fold)
  *
@@ -124,6 +124,7 @@ function assemble(ctx: AdviceInput, columns: ColumnProfile[]): Profile {
     settings: {
       folds: policy.folds, seed: policy.seed, top: ctx.top, maxOneHot: policy.maxOneHot,
       minLevelRows: policy.minLevelRows, coverage: policy.coverage, collisionBudget: policy.collisionBudget,
+      maxHashBits: policy.hashMaxBits,
     },
     columns: all,
   };

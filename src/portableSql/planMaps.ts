@@ -8,7 +8,9 @@
  *    depth d ≥ 1 (parent text → group value; an unseen level takes its deepest parent that is a
  *    group), and the "other" group's value (the prior p when no seen level is "other");
  *  - hierarchical prior: `level`, `parent` (parent text → parent mean; an unseen parent → p);
- *  - hashing of backoff groups: `level` (seen level → bucket, "other" → width) and `group d`.
+ *  - hashing of backoff groups: `level` (seen level → bucket, "other" → width) and `group d`;
+ *  - codes over backoff groups (encode/codedGroupMap): `level` (seen level → its group's code,
+ *    "other" → 0) and `group d`; a level in no table → 0, missing → 0.
  * encode's mapping rules are not restated here: only its results are read.
  */
 import type { Engine } from "../engine/db.js";
@@ -52,6 +54,14 @@ async function keyValues(engine: Engine, table: string, key: string, value: stri
 async function lookupsOf(engine: Engine, c: EncodedColumn, prior: number | null): Promise<Omit<ScoringColumn, "column" | "outputs">> {
   const spec = c.spec;
   const i = c.index;
+  if (spec.encoding === "codes" && spec.grouping) {
+    const parents = spec.grouping.parents;
+    const groups: Lookup[] = [];
+    for (let d = parents.length; d >= 1; d--) {
+      groups.push({ role: `group ${d}`, parent: parents[d - 1]!, rows: await keyValues(engine, `(SELECT DISTINCT depth, group_key, value FROM ${fullTable(i)})`, "group_key", "value", `depth = ${d}`) });
+    }
+    return { lookups: [{ role: "level", rows: await keyValues(engine, fullTable(i), "level", "value") }, ...groups], fallback: 0, missing: 0 };
+  }
   if (spec.encoding === "frequency" || spec.encoding === "codes") {
     return { lookups: [{ role: "level", rows: await keyValues(engine, mapTable(i), "level", "value") }], fallback: 0, missing: 0 };
   }

@@ -27,6 +27,18 @@ export interface ParentFigures {
   wellFilledRowShare: number;
   /** Median over groups of the group's rows. */
   medianGroupRows: number;
+  /** With a target: how the parent splits the spread of the level means (hierarchy/spread). */
+  targetSpread?: ParentSpread;
+}
+
+/** hierarchy/spread: the parents' chance-corrected share of the level means' spread, its F test, and the verdict. */
+export interface ParentSpread {
+  share: number;
+  /** F statistic on (groups − 1, levels − groups) df; null when infinite (no spread within parents). */
+  f: number | null;
+  p: number;
+  /** share ≥ PARENT_SHARE and p ≤ PARENT_P: the parent explains part of the between-level spread. */
+  groups: boolean;
 }
 
 /** Backoff: a level maps to itself when it has minRows rows, else to its longest well-filled parent, else "other". */

@@ -34,7 +34,7 @@ export interface IndicatorParams { one: string | null; zero: string | null }
 export interface OneHotParams { levels: string[] }
 export interface PooledOneHotParams { keep: string[]; other: string; pooledRowShare: number; minRows: number }
 export interface FrequencyParams { tableSize: number; unseen: number }
-export interface CodesParams { tableSize: number; order: string; unseen: number }
+export interface PlainCodesParams { tableSize: number; order: string; unseen: number; grouping?: undefined }
 
 /** Backoff grouping: parents deepest first, levels with fewer than minRows rows back off. */
 export interface BackoffGroupingParams {
@@ -48,6 +48,13 @@ export interface BackoffGroupingParams {
 export interface PlainHashingParams { width: number; collisionRowShare: number | null; hash: string; salt: string; grouping?: undefined }
 export type GroupedHashingParams = Omit<PlainHashingParams, "grouping"> & BackoffGroupingParams;
 export type HashingParams = PlainHashingParams | GroupedHashingParams;
+
+/**
+ * Codes over backoff groups (hierarchy/codedGroups, encode/codedGroupMap): the groups of a nesting
+ * code numbered 1..tableSize by training rows; "other", unseen without a group and missing → 0.
+ */
+export type GroupedCodesParams = Omit<PlainCodesParams, "grouping"> & BackoffGroupingParams;
+export type CodesParams = PlainCodesParams | GroupedCodesParams;
 
 interface TargetBase {
   weight: PriorWeight;

@@ -63,6 +63,8 @@ export interface ProfileSettings {
   minLevelRows?: number;
   coverage?: number;
   collisionBudget?: number;
+  /** --max-hash-bits: no hash width above 2^maxHashBits (encode and tailsift sql refuse a wider plan); absent in older profiles. */
+  maxHashBits?: number;
   [k: string]: unknown;
 }
 
@@ -116,6 +118,12 @@ export interface ColumnProfile {
     collisionRowShare: number;
     hash?: string;
     candidates: { width: number; collisionRowShare: number; collidingLevels?: number }[];
+    /** advice/hashWidth: collisions are counted over the rows of levels with at least minRows rows. */
+    frequent?: { minRows: number; levels: number; rowShare: number };
+    /** No width up to the cap (2^maxHashBits) is within the budget. */
+    atCap?: boolean;
+    /** The frequent levels fit the cap: index them ("codes") instead of hashing. */
+    index?: boolean;
   };
   /** Structured codes: detected parents and the backoff grouping (issue: grouping advisor). */
   hierarchy?: HierarchyFigures;

@@ -19,6 +19,7 @@ function keyParams(c: ColumnProfile): string {
     }
     case "hashing": return `${rec.params.grouping === "backoff" ? "backoff groups, " : ""}w=${formatCount(rec.params.width)}, coll ${formatShare(rec.params.collisionRowShare, 2)}`;
     case "frequency": return `${formatCount(rec.params.tableSize)} levels`;
+    case "codes": return `${rec.params.grouping === "backoff" ? "backoff groups, " : ""}${formatCount(rec.params.tableSize)} codes`;
     default: return "";
   }
 }

@@ -70,15 +70,17 @@ describe("advice with a target", () => {
 });
 
 describe("advice without a target: hashing width from exact collisions", () => {
-  it("chooses the smallest power of two within the collision budget", async () => {
+  it("chooses the smallest power of two within the collision budget; the 400 levels fit the cap, so they are indexed", async () => {
     const p = await scan([file], { columns: ["wide_noise"] });
     const c = col(p, "wide_noise");
-    expect(c.recommendation.encoding).toBe("hashing");
+    // advice/hashWidth: a closed vocabulary within 2^20 is indexed (no level has 30 rows, so all count)
+    expect(c.recommendation.encoding).toBe("codes");
+    expect(c.recommendation.params.tableSize).toBe(c.distinct);
     const cands = c.hashing!.candidates;
     const chosen = cands.find((x) => x.collisionRowShare <= 0.01)!;
-    expect(c.recommendation.params.width).toBe(chosen.width);
+    expect(c.hashing!.width).toBe(chosen.width);
     expect(cands.filter((x) => x.width < chosen.width).every((x) => x.collisionRowShare > 0.01)).toBe(true);
-    expect(c.recommendation.reasons.join(" ")).toContain(`${chosen.width.toLocaleString("en-US")} is the smallest power of two`);
+    expect(c.recommendation.reasons.join(" ")).toContain(`hashing would have needed ${chosen.width.toLocaleString("en-US")} buckets`);
   });
 
   it("bucket numbers equal an independent node:crypto computation, and collisions match a direct count", async () => {

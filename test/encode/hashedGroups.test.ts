@@ -54,7 +54,8 @@ async function encodeRows(file: string, mode: "training" | "scoring", name: stri
 
 beforeAll(async () => {
   // --collision-budget 0.2: the chosen width has colliding groups, so the share check below can fail
-  await cli(["scan", trainFile, "--out", planDir, "--as-categorical", "postcode", "--collision-budget", "0.2", "--quiet"]);
+  // --max-hash-bits 4: more groups than 16 buckets, so the groups are hashed rather than indexed (advice/hashWidth)
+  await cli(["scan", trainFile, "--out", planDir, "--as-categorical", "postcode", "--collision-budget", "0.2", "--max-hash-bits", "4", "--quiet"]);
   const profile = JSON.parse(fs.readFileSync(path.join(planDir, "profile.json"), "utf8")) as Profile;
   const rec = profile.columns.find((c) => c.name === "postcode")!.recommendation;
   expect(rec.encoding).toBe("hashing");
@@ -156,7 +157,7 @@ describe("hashing of backoff groups", () => {
 
 describe("plans encode refuses", () => {
   it.each([
-    ["a grouping on frequency", { grouping: "backoff" }, "frequency", "unsupported_plan", /a grouping only with target-kfold or hashing/],
+    ["a grouping on frequency", { grouping: "backoff" }, "frequency", "unsupported_plan", /a grouping only with target-kfold, hashing or codes/],
     ["an unknown grouping on hashing", { grouping: "clusters" }, "hashing", "bad_plan", /unknown params.grouping 'clusters'/],
     ["hashing with malformed parents", { parents: [] }, "hashing", "bad_plan", /params.parents must be a non-empty list/],
   ] as const)("%s", async (name, change, encoding, code, message) => {

@@ -86,10 +86,14 @@ describe("figures over a generated extract", () => {
     expect(h.counterLike).toBe(false);
   });
 
-  it("code without a target: backoff grouping then hashing, collisions as node:crypto counts them", () => {
+  it("code without a target: backoff grouping then hashing (groups past the cap), collisions as node:crypto counts them", () => {
     const column = profile.columns.find((c) => c.name === "code")!;
     const h = hierarchy.get(0)!;
-    const rec = applyHierarchy(column, h, DEFAULT_POLICY);
+    // within the default cap the groups are indexed (codes); a cap below the group count hashes them
+    expect(applyHierarchy(column, h, DEFAULT_POLICY)).toMatchObject({ encoding: "codes", params: { grouping: "backoff", tableSize: h.backoff.groups } });
+    const bits = Math.floor(Math.log2(h.backoff.groups - 1));
+    expect(2 ** bits).toBeLessThan(h.backoff.groups);
+    const rec = applyHierarchy(column, h, { ...DEFAULT_POLICY, hashMaxBits: bits });
     expect(rec.encoding).toBe("hashing");
     expect(rec.params).toMatchObject({ grouping: "backoff", minRows: 30, width: h.backoff.hashing!.width });
     const plain = backoffGroups(counts(rows.map((r) => String(r[1]))), h.parents.map((p) => p.parent), 30);

@@ -2,7 +2,9 @@
  * Invented vet-clinic extracts for the scoring-SQL tests, and a plan that uses every encoding
  * kind (a user editing scan's plan): indicator, one-hot, pooled one-hot, frequency, codes,
  * salted hashing, flat target encoding, backoff target encoding (postcode prefixes), a
- * hierarchical prior (ward codes split on '-'), and hashing of backoff groups (patient tags).
+ * hierarchical prior (ward codes split on '-'), hashing of backoff groups (patient tags), and
+ * codes over backoff groups (microchip batches: the tag text again, so no extra random draw;
+ * tableSize below the group count so some groups take code 0).
  * `later` draws the same world plus unseen levels in every column; both have missing values.
  */
 import fs from "node:fs";
@@ -20,7 +22,7 @@ const DISTRICTS = ["120", "135", "217", "301", "356", "512", "603", "725", "802"
 /** Rare districts: each too small for a group, together a group under their first digit "8". */
 const RARE_DISTRICTS = ["861", "862", "863", "864"];
 
-export const SCORING_COLUMNS = ["id", "clinic", "species", "channel", "reason", "breed", "vet", "insurance", "postcode", "ward", "tag", "no_show"];
+export const SCORING_COLUMNS = ["id", "clinic", "species", "channel", "reason", "breed", "vet", "insurance", "postcode", "ward", "tag", "chip", "no_show"];
 
 export function scoringExtract(rows: number, seed: number, later: boolean): string {
   const r = mulberry32(seed);
@@ -47,6 +49,7 @@ export function scoringExtract(rows: number, seed: number, later: boolean): stri
       maybe(unseen && r() < 0.3 ? "corporate" : pick(PLANS)),
       maybe(postcode), maybe(ward), maybe(tag), y,
     ];
+    row.splice(row.length - 1, 0, row[row.length - 2]!); // chip: the tag cell again
     out.push(row.map(csvText).join(","));
   }
   return `${out.join("\n")}\n`;
@@ -65,6 +68,7 @@ export const SCORING_ENCODINGS: Record<string, { encoding: string; params: Recor
   postcode: { encoding: "target-kfold", params: { grouping: "backoff", parents: [{ kind: "prefix", length: 3 }, { kind: "prefix", length: 1 }], minRows: 12, weight: 2.5 } },
   ward: { encoding: "target-kfold", params: { prior: "hierarchical", parent: { kind: "tokens", count: 2, delimiters: "-" }, weight: 4, parentWeight: 9 } },
   tag: { encoding: "hashing", params: { width: 16, hash: "md5-first8-le", salt: "", grouping: "backoff", parents: [{ kind: "prefix", length: 3 }, { kind: "prefix", length: 2 }], minRows: 6 } },
+  chip: { encoding: "codes", params: { tableSize: 9, order: "descending training frequency", unseen: 0, grouping: "backoff", parents: [{ kind: "prefix", length: 3 }, { kind: "prefix", length: 2 }], minRows: 6 } },
 };
 
 /** Rewrites the plan folder's profile.json with SCORING_ENCODINGS. */

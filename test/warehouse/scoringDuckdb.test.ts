@@ -52,13 +52,13 @@ describe("scoring SQL in DuckDB equals encode --for scoring", () => {
       expect(c.missing, c.column).toBeGreaterThan(0);
       if (!["species", "vet"].includes(c.column)) expect(c.unseen, c.column).toBeGreaterThan(0);
     }
-    for (const name of ["postcode", "tag"]) {
+    for (const name of ["postcode", "tag", "chip"]) {
       const g = summary.columns.find((c) => c.column === name)!.grouping!;
       expect([g.own.rows > 0, g.parent.rows > 0, g.other.rows > 0, g.unseen.rows > 0], name).toEqual([true, true, true, true]);
     }
     const ward = summary.columns.find((c) => c.column === "ward")!.grouping!;
     expect([ward.parent.rows > 0, ward.other.rows > 0], "ward").toEqual([true, true]);
-    expect(summary.columns.map((c) => c.encoding).sort()).toEqual(["codes", "frequency", "hashing", "hashing", "indicator", "one-hot", "pooled-one-hot", "target-kfold", "target-kfold", "target-kfold"]);
+    expect(summary.columns.map((c) => c.encoding).sort()).toEqual(["codes", "codes", "frequency", "hashing", "hashing", "indicator", "one-hot", "pooled-one-hot", "target-kfold", "target-kfold", "target-kfold"]);
   });
 
   it("with every mapping inlined", async () => {

@@ -2,11 +2,15 @@
  * encode/encodings/codes: the level's rank by descending training rows, ties by level text in
  * byte order (1 = most frequent); levels ranked past `tableSize` are pooled into 0. Built from the
  * plan's level table in both modes: mapTable(i)(level, rows, value BIGINT). Missing and unseen
- * levels are not in the table → 0.
+ * levels are not in the table → 0. Codes over backoff groups (the index hierarchy/codedGroups
+ * advises for identifier-like nesting codes whose groups fit the width cap) number the groups
+ * instead, in the table encode/codedGroupMap builds; "other", groups past tableSize and missing → 0.
  */
 import { quoteLiteral, sqlNumber } from "../../engine/sql.js";
+import { buildCodedGroupMap, codedGroupFallbackRule } from "../codedGroupMap.js";
 import { lookupOf } from "../expressions.js";
 import type { EncodingModule } from "../encodingModule.js";
+import { codedGroupManifestParams } from "../hierarchyManifest.js";
 import { PLAN_LEVELS } from "../levelTables.js";
 import { mainFile } from "../mappingFiles.js";
 import { mapTable } from "../targetMaps.js";
@@ -19,6 +23,7 @@ export const codes: EncodingModule<Spec> = {
   outputHolds: () => [{}],
   outputType: "BIGINT",
   async buildMap(engine, { index: i, name, spec }) {
+    if (spec.grouping) return buildCodedGroupMap(engine, i, name, spec.tableSize, spec.grouping);
     await engine.run(
       `CREATE OR REPLACE TEMP TABLE ${mapTable(i)} AS
        SELECT level, rows, (CASE WHEN r <= ${sqlNumber(spec.tableSize)} THEN r ELSE 0 END)::BIGINT AS value
@@ -29,6 +34,6 @@ export const codes: EncodingModule<Spec> = {
   },
   columnSql: (c, ctx) => [`coalesce(${lookupOf(c, ctx).value("value")}, 0)::BIGINT`],
   fallbackCondition: () => "l.level IS NOT NULL AND coalesce(m.value, 0) = 0",
-  fallbackRule: () => "missing, pooled and unseen → code 0",
-  manifestParams: (_e, c) => Promise.resolve({ tableSize: c.spec.tableSize, value: "rank by descending training rows, ties by level text in byte order; ranks past tableSize → 0" }),
+  fallbackRule: (s) => (s.grouping ? codedGroupFallbackRule : "missing, pooled and unseen → code 0"),
+  manifestParams: (_e, c) => Promise.resolve(c.spec.grouping ? codedGroupManifestParams(c.spec.tableSize, c.spec.grouping) : { tableSize: c.spec.tableSize, value: "rank by descending training rows, ties by level text in byte order; ranks past tableSize → 0" }),
 };
