@@ -17,6 +17,7 @@ import path from "node:path";
 import { foldSql } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { describeFiles, openSource, type SourceOptions } from "../engine/source.js";
+import { planMissingLike } from "../engine/missingLike.js";
 import { TailsiftError } from "../errors.js";
 import { locatePlan } from "../drift/planFiles.js";
 import { writeOutput } from "../encode/writeOutput.js";
@@ -94,7 +95,7 @@ function findPlan(plan: string): { profilePath: string; levelsPath: string } {
 }
 
 async function encodeWith(engine: Engine, inputs: readonly string[], profile: Profile, levelsPath: string, o: EncodeOptions & { foldColumn: string }): Promise<EncodeSummary> {
-  const source = await openSource(engine, inputs, o);
+  const source = await openSource(engine, inputs, { ...o, missingLike: planMissingLike(profile.settings.missingLike, o.missingLike, true) });
   const training = o.mode === "training";
   const plan = planColumns(profile, source.columns, { mode: o.mode, keep: o.keep ?? [], keepOriginal: o.keepOriginal ?? false, foldColumn: o.foldColumn });
   if (plan.names.length === 0) throw new TailsiftError("nothing_to_write", "the plan drops every column of the input; nothing to write (use --keep to pass columns through)");

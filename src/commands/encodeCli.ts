@@ -21,7 +21,7 @@ interface EncodeCliOptions {
   recount?: boolean;
   format: "table" | "json";
   memoryLimit?: string; threads?: number; tempDir?: string;
-  skipBadRows?: boolean; encoding?: string; delimiter?: string;
+  skipBadRows?: boolean; encoding?: string; delimiter?: string; missingLike?: string[];
   quiet?: boolean; progress?: boolean; debug?: boolean;
 }
 
@@ -49,7 +49,7 @@ export function addEncodeCommand(program: Command, io: CliIO): void {
         ...(o.keep ? { keep: o.keep } : {}), keepOriginal: o.keepOriginal ?? false,
         leaveOneOut: o.leaveOneOut ?? false, recount: o.recount ?? false,
         memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
-        skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter,
+        skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter, missingLike: o.missingLike,
         onEngine: (e) => { progress.attach(e); io.onEngine?.(e); },
       });
     } finally {

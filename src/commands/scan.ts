@@ -15,7 +15,10 @@ import { applyOverrides } from "../advice/overrides.js";
 import { buildLevelTable, FOLD_HASH_NAME, type PassTotals } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { collisionTable, HASH_NAME } from "../engine/hashing.js";
-import { looksNumeric, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
+import { sampleColumns, sampleTargetValues, type ColumnSample } from "../engine/inspect.js";
+import { passThroughProfile, sampledKinds } from "../advice/passThroughColumns.js";
+import { addPlaceholderFigures } from "../engine/placeholderLevels.js";
+import { normaliseMissingLike } from "../engine/missingLike.js";
 import { leakageSums, type LeakageSums } from "../engine/leakage.js";
 import {
   binaryIntervalGroups, buildLevelTotals, continuousFlagCounts, findVariants, funnelLevels,
@@ -93,8 +96,8 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
     const candidates = source.columns.filter((c) => c !== options.target && !excluded.has(c) && (chosen === null || chosen.has(c)));
     checkMeasuredWidth(candidates.length, source);
     const samples = await sampleColumns(engine, source.view, candidates);
-    const numeric = samples.filter((s) => !forced.has(s.name) && looksNumeric(s)).map((s) => s.name);
-    const levelColumns = candidates.filter((c) => !numeric.includes(c));
+    const { numeric, time, distinct } = sampledKinds(samples, forced);
+    const levelColumns = candidates.filter((c) => !numeric.includes(c) && !time.includes(c));
 
     let targetSpec: TargetSpec | undefined;
     if (options.target !== undefined) {
@@ -103,7 +106,7 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
     }
 
     const totals = await buildLevelTable(engine, {
-      view: source.view, identityColumns: source.columns, levelColumns, countColumns: numeric,
+      view: source.view, identityColumns: source.columns, levelColumns, countColumns: [...numeric, ...time], timeColumns: time, distinctColumns: distinct,
       target: targetSpec, folds: policy.folds, seed: policy.seed,
     }, `scanning ${source.files.length === 1 ? `'${source.files[0]}'` : `${source.files.length} files`}`);
     if (totals.rows === 0) throw new TailsiftError("empty_input", `${describeFiles(source.files)} has a header but no rows; give a file with rows`);
@@ -111,7 +114,7 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
 
     const target = targetSpec ? checkTarget(targetSpec, totals) : undefined;
     return adviseFromLevelTable(engine, {
-      levelColumns, numeric, allColumns: source.columns, totals, target, policy, top, options,
+      levelColumns, numeric: [...numeric, ...time], time, samples, allColumns: source.columns, totals, target, policy, top, options,
       input: {
         paths: source.files, rows: totals.rows, bytes: source.bytes, fingerprint: source.fingerprint, format: source.format,
         ...(skippedRows !== undefined ? { skippedRows } : {}),
@@ -123,6 +126,10 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
 export interface LevelTableContext {
   levelColumns: string[];
   numeric: string[];
+  /** Of `numeric`: the columns with the time role (engine/timeColumns). */
+  time?: string[];
+  /** The column sample (scan only; absent when advising from level tables). */
+  samples?: ColumnSample[];
   allColumns: string[];
   totals: PassTotals;
   target: ProfileTarget | undefined;
@@ -160,6 +167,7 @@ export async function adviseFromLevelTable(engine: Engine, ctx: LevelTableContex
     if (column && v.groups > 0) column.variants = { groups: v.groups, levels: v.levels, rowShare: totals.rows > 0 ? v.rows / totals.rows : 0, examples: v.examples };
   }
 
+  await addPlaceholderFigures(engine, columns);
   if (target) await addTargetFigures(engine, columns, summaries.map((s) => s.top), target, top);
   else await addHashing(engine, columns, policy);
 
@@ -193,8 +201,7 @@ export async function adviseFromLevelTable(engine: Engine, ctx: LevelTableContex
     .map((c) => c === options.target
       ? unmeasuredColumn(c, "target", totals.rows, target?.missing ?? 0, "The target: passed through unchanged.")
       : numeric.includes(c)
-        ? unmeasuredColumn(c, "numeric", totals.rows, totals.rows - (totals.nonMissing.get(c) ?? 0),
-          "Numeric: every sampled value is a number with more than 20 distinct values; passed through unchanged (use --as-categorical to profile it as levels).")
+        ? passThroughProfile(c, totals, ctx.samples, ctx.time)
         : unmeasuredColumn(c, "excluded", totals.rows, 0, "Excluded by --columns/--exclude: not measured."));
   const order = new Map(ctx.allColumns.map((c, i) => [c, i]));
   const all = [...columns, ...others].sort((a, b) => (order.get(a.name) ?? 0) - (order.get(b.name) ?? 0));
@@ -208,6 +215,7 @@ export async function adviseFromLevelTable(engine: Engine, ctx: LevelTableContex
       folds: policy.folds, seed: policy.seed, top, foldHash: FOLD_HASH_NAME, maxOneHot: policy.maxOneHot,
       minLevelRows: policy.minLevelRows, coverage: policy.coverage, collisionBudget: policy.collisionBudget,
       foldColumns: ctx.allColumns,
+      ...(normaliseMissingLike(options.missingLike).length > 0 ? { missingLike: normaliseMissingLike(options.missingLike) } : {}),
     },
     columns: all,
   };

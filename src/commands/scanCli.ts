@@ -25,7 +25,7 @@ export interface ScanCliOptions {
   format: "table" | "json" | "markdown";
   out?: string;
   memoryLimit?: string; threads?: number; tempDir?: string;
-  skipBadRows?: boolean; encoding?: string; delimiter?: string;
+  skipBadRows?: boolean; encoding?: string; delimiter?: string; missingLike?: string[];
   quiet?: boolean; progress?: boolean; debug?: boolean;
   /** The inputs are level tables (from the query of `tailsift sql`), not raw rows. */
   levels?: boolean;
@@ -59,7 +59,7 @@ async function scanAndWrite(inputs: string[], o: ScanCliOptions, io: IO, onEngin
     policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget },
     decide: o.decide,
     memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
-    skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter,
+    skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter, missingLike: o.missingLike,
     levelTableOut: levelTemp,
     lockToPaths: [...inputs, ...(o.out ? [o.out] : [])],
     onEngine,

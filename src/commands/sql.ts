@@ -12,6 +12,7 @@
 import { TailsiftError } from "../errors.js";
 import { ANSI_SQL, SPARK_SQL, sqlNumber, type SqlDialect } from "../engine/sql.js";
 import { NEGATIVE_WORDS, POSITIVE_WORDS } from "../engine/target.js";
+import { missingLikeSql, normaliseMissingLike } from "../engine/missingLike.js";
 import type { TargetKind } from "../profile/types.js";
 
 export interface LevelSqlOptions {
@@ -31,6 +32,8 @@ export interface LevelSqlOptions {
   folds?: number;
   /** "ansi" (default: double-quoted identifiers, VARCHAR; DuckDB, Trino, PostgreSQL) or "spark" (backticks, STRING). */
   dialect?: "ansi" | "spark";
+  /** Values counted as missing (NULL) in every counted column, as scan --missing-like does. */
+  missingLike?: readonly string[];
 }
 
 const bad = (message: string) => new TailsiftError("bad_option", message);
@@ -92,7 +95,7 @@ export function levelSql(o: LevelSqlOptions): string {
   const d = o.dialect === "spark" ? SPARK_SQL : ANSI_SQL;
   const table = qualifiedName(o.from, d);
   const inner = [
-    ...o.columns.map((c, i) => `CAST(${d.ident(c)} AS ${d.text}) AS v${i}`),
+    ...o.columns.map((c, i) => `${missingLikeSql(`CAST(${d.ident(c)} AS ${d.text})`, normaliseMissingLike(o.missingLike), d.literal)} AS v${i}`),
     `${foldExpr(o)} AS fold`,
     `${yExpr(o, d)} AS y`,
   ];

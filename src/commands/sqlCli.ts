@@ -28,11 +28,13 @@ export function addSqlCommand(program: Command, io: CliIO): void {
     .option("--fold-expr <sql>", "SQL expression giving each row's fold (e.g. a hash of a row key modulo K); without it every row is fold 0 and scan --levels cannot compute out-of-fold figures")
     .option("--folds <k>", "wrap the fold expression as MOD(ABS(expr), K)", integer("--folds"))
     .addOption(new Option("--dialect <name>", "identifier and string quoting: ansi (DuckDB, Trino, PostgreSQL) or spark (backticks, STRING)").choices(["ansi", "spark"]).default("ansi"))
+    .option("--missing-like <values>", "count these values as missing (NULL), trimmed and case-insensitive, as scan --missing-like does (comma-separated, repeatable)", list)
     .option("--debug", "print the stack trace of an error")
-    .action((opts: SqlCliOptions) => {
+    .action((opts: SqlCliOptions & { missingLike?: string[] }) => {
       const sql = levelSql({
         columns: opts.columns ?? [], from: opts.from, target: opts.target, positive: opts.positive,
         targetKind: opts.targetKind, foldExpr: opts.foldExpr, folds: opts.folds, dialect: opts.dialect,
+        ...(opts.missingLike ? { missingLike: opts.missingLike } : {}),
       });
       io.stdout(`${sql.trimEnd()};\n`);
     });

@@ -10,6 +10,7 @@ import type { Engine } from "./db.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
 import type { TargetSpec } from "./target.js";
 import { targetSql } from "./target.js";
+import { readTimeTotals, timePassAggregates, timeTotalsSql, timeValueSql, type TimeTotals } from "./timeColumns.js";
 
 export const LEVEL_TABLE = "tailsift_levels";
 export const FOLD_HASH_NAME = "duckdb-hash-of-row-text";
@@ -22,6 +23,10 @@ export interface PassPlan {
   levelColumns: readonly string[];
   /** Columns for which only the non-missing count is kept (numeric columns). */
   countColumns: readonly string[];
+  /** Date/time columns: exact min, max and granularity aggregates (engine/timeColumns); not levels. */
+  timeColumns?: readonly string[];
+  /** Numeric columns whose exact distinct count is wanted (identifier screen, few values): counted without folds, read and removed after the pass. */
+  distinctColumns?: readonly string[];
   target?: TargetSpec;
   folds: number;
   seed: number;
@@ -35,6 +40,10 @@ export interface PassTotals {
   sumY2: number;
   badTargets: number;
   nonMissing: Map<string, number>;
+  /** Per time column: exact range and granularity counts. */
+  time?: Map<string, TimeTotals>;
+  /** Per distinct-counted column: exact distinct values and rows of the most repeated value. */
+  distinct?: Map<string, { distinct: number; maxRows: number }>;
 }
 
 /**
@@ -56,15 +65,21 @@ export function levelPassSql(plan: PassPlan): string {
     `${target.bad} AS __bad`,
     ...plan.levelColumns.map((c, i) => `${quoteIdent(c)} AS __v${i}`),
     ...plan.countColumns.map((c, i) => `${quoteIdent(c)} AS __n${i}`),
+    ...(plan.timeColumns ?? []).map((c, i) => `${timeValueSql(quoteIdent(c))} AS __t${i}`),
+    ...(plan.distinctColumns ?? []).map((c, i) => `${quoteIdent(c)} AS __k${i}`),
   ];
-  const sets = [...plan.levelColumns.map((_, i) => `(__v${i}, __fold)`), "(__fold)"];
-  const which = plan.levelColumns.length === 0
+  // distinct-counted columns are grouped without the fold, as col = -2 - j (removed after the pass)
+  const keys = plan.distinctColumns ?? [];
+  const grouped = [...plan.levelColumns.map((_, i) => ({ v: `__v${i}`, col: i })), ...keys.map((_, j) => ({ v: `__k${j}`, col: -2 - j }))];
+  const sets = [...plan.levelColumns.map((_, i) => `(__v${i}, __fold)`), "(__fold)", ...keys.map((_, j) => `(__k${j})`)];
+  const which = grouped.length === 0
     ? "-1"
-    : `CASE ${plan.levelColumns.map((_, i) => `WHEN GROUPING(__v${i}) = 0 THEN ${i}`).join(" ")} ELSE -1 END`;
-  const level = plan.levelColumns.length === 0
+    : `CASE ${grouped.map((g) => `WHEN GROUPING(${g.v}) = 0 THEN ${g.col}`).join(" ")} ELSE -1 END`;
+  const level = grouped.length === 0
     ? "NULL::VARCHAR"
-    : plan.levelColumns.length === 1 ? "__v0" : `COALESCE(${plan.levelColumns.map((_, i) => `__v${i}`).join(", ")})`;
-  const counts = plan.countColumns.map((_, i) => `, count(__n${i})::BIGINT AS __nn${i}`).join("");
+    : grouped.length === 1 ? grouped[0]!.v : `COALESCE(${grouped.map((g) => g.v).join(", ")})`;
+  const counts = plan.countColumns.map((_, i) => `, count(__n${i})::BIGINT AS __nn${i}`).join("")
+    + (plan.timeColumns ?? []).map((_, i) => `, ${timePassAggregates(`__t${i}`, i)}`).join("");
   return `SELECT (${which})::INTEGER AS col, ${level} AS level, __fold AS fold, count(*)::BIGINT AS rows,
   count(__y)::BIGINT AS n_y, coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${plan.target?.kind === "binary" ? "coalesce(sum(__y), 0)::DOUBLE" : "coalesce(sum(__y * __y), 0)::DOUBLE"} AS sum_y2,
   count(*) FILTER (WHERE __bad)::BIGINT AS bad${counts}
@@ -85,17 +100,27 @@ export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "s
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TABLE} AS ${levelPassSql({ ...plan, levelColumns: first })}`, doing);
   for (let offset = PASS_BATCH; offset < plan.levelColumns.length; offset += PASS_BATCH) {
     const batch = plan.levelColumns.slice(offset, offset + PASS_BATCH);
-    const sql = levelPassSql({ ...plan, levelColumns: batch, countColumns: [] });
+    const sql = levelPassSql({ ...plan, levelColumns: batch, countColumns: [], timeColumns: [], distinctColumns: [] });
     await engine.run(
       `INSERT INTO ${LEVEL_TABLE} BY NAME SELECT col + ${sqlNumber(offset)} AS col, level, fold, rows, n_y, sum_y, sum_y2, bad FROM (${sql}) WHERE col >= 0`,
       `${doing} (columns ${offset + 1}–${offset + batch.length})`);
   }
+  const keys = plan.distinctColumns ?? [];
+  const distinct = new Map<string, { distinct: number; maxRows: number }>();
+  if (keys.length > 0) {
+    const found = await engine.rows<{ col: number; d: number; mx: number }>(
+      `SELECT col, count(*)::DOUBLE AS d, max(rows)::DOUBLE AS mx FROM ${LEVEL_TABLE} WHERE col <= -2 AND level IS NOT NULL GROUP BY col`, "counting distinct numeric values");
+    keys.forEach((c) => distinct.set(c, { distinct: 0, maxRows: 0 }));
+    for (const r of found) { const c = keys[-2 - r.col]; if (c !== undefined) distinct.set(c, { distinct: r.d, maxRows: r.mx }); }
+    await engine.run(`DELETE FROM ${LEVEL_TABLE} WHERE col <= -2`, "counting distinct numeric values");
+  }
+  const times = plan.timeColumns ?? [];
   const counts = plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("");
   const rows = await engine.rows<Record<string, number>>(
     `SELECT fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, bad::DOUBLE AS bad${counts}
      FROM ${LEVEL_TABLE} WHERE col = -1 GROUP BY ALL ORDER BY fold`, "reading the pass totals");
   const foldRows = Array.from({ length: plan.folds }, () => 0);
-  const totals: PassTotals = { rows: 0, foldRows, targetRows: 0, sumY: 0, sumY2: 0, badTargets: 0, nonMissing: new Map() };
+  const totals: PassTotals = { rows: 0, foldRows, targetRows: 0, sumY: 0, sumY2: 0, badTargets: 0, nonMissing: new Map(), time: new Map(), distinct };
   for (const r of rows) {
     foldRows[r.fold ?? 0] = r.rows ?? 0;
     totals.rows += r.rows ?? 0;
@@ -104,6 +129,12 @@ export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "s
     totals.sumY2 += r.sum_y2 ?? 0;
     totals.badTargets += r.bad ?? 0;
     plan.countColumns.forEach((c, i) => totals.nonMissing.set(c, (totals.nonMissing.get(c) ?? 0) + (r[`nn${i}`] ?? 0)));
+  }
+  if (times.length > 0) {
+    // the time aggregates are summed over folds in one more row (min/max cannot be added per fold in JS as text)
+    const [all] = await engine.rows<Record<string, unknown>>(
+      `SELECT ${times.map((_, i) => timeTotalsSql(i)).join(", ")} FROM ${LEVEL_TABLE} WHERE col = -1`, "reading the time ranges");
+    times.forEach((c, i) => totals.time?.set(c, readTimeTotals(all ?? {}, i)));
   }
   return totals;
 }

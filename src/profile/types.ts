@@ -8,7 +8,7 @@ import type { HierarchyFigures } from "../hierarchy/types.js";
 
 export type TargetKind = "binary" | "continuous";
 
-export type ColumnRole = "categorical" | "identifier" | "constant" | "numeric" | "target" | "excluded";
+export type ColumnRole = "categorical" | "identifier" | "constant" | "numeric" | "time" | "target" | "excluded";
 
 export type Encoding =
   | "drop"
@@ -121,7 +121,46 @@ export interface ColumnProfile {
   hierarchy?: HierarchyFigures;
   /** Candidate encodings scored out-of-fold and the one-standard-error choice. */
   evidence?: Evidence;
+  /** Numeric columns (role numeric, or identifier when the numbers are a row key): how many values. */
+  numericValues?: NumericValues;
+  /** Time columns (role time): exact range and granularity. */
+  time?: TimeFigures;
+  /** Levels spelled like a missing value ("unknown", "N/A", "[no title]"…), counted beside `missing`. */
+  placeholders?: PlaceholderFigures;
   recommendation: Recommendation;
+}
+
+export interface NumericValues {
+  /** Distinct values: exact (counted in the pass) or over the first `sampledRows` rows. */
+  distinct: number;
+  exact: boolean;
+  sampledRows?: number;
+  /** Every sampled value is an integer. */
+  integer: boolean;
+  /** Exact counts: rows of the most repeated value. */
+  maxRows?: number;
+}
+
+export interface TimeFigures {
+  /** Earliest and latest value as written (offsets ignored): YYYY-MM-DD at day granularity, else YYYY-MM-DD HH:MM:SS[.f]. */
+  min: string | null;
+  max: string | null;
+  granularity: "day" | "hour" | "minute" | "second" | "sub-second";
+  /** Non-missing rows whose value reads as a date or timestamp, and those that do not. */
+  parsedRows: number;
+  unparsedRows: number;
+  /** Share of the sampled non-missing values that read as a time (the role threshold is 0.95). */
+  sampledShare: number;
+  /** Calendar parts worth deriving, e.g. "day of week", "month", "hour". */
+  calendarParts: string[];
+}
+
+export interface PlaceholderFigures {
+  /** Rows and levels whose value is spelled like a missing value (profile/placeholders). */
+  rows: number;
+  levels: number;
+  /** The largest such levels with the list entry each matched. */
+  top: { value: string; rows: number; entry: string }[];
 }
 
 export interface Recommendation {
