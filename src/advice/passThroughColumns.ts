@@ -40,7 +40,7 @@ export function numericColumnProfile(name: string, f: PassThroughFacts): ColumnP
   const share = f.nonMissing > 0 ? values.distinct / f.nonMissing : 0;
   if (f.exact && integer && f.nonMissing >= NUMERIC_IDENTIFIER_MIN_ROWS && share >= NUMERIC_IDENTIFIER_SHARE) {
     const column = unmeasuredColumn(name, "identifier", f.rows, missing,
-      `Drop: a numeric identifier — ${count(values.distinct)} distinct integers in ${count(f.nonMissing)} non-missing rows (${pct(share)}, at least ${pct(NUMERIC_IDENTIFIER_SHARE)} counts as one value per row; the most repeated value is on ${count(f.exact.maxRows)} rows). A row key carries no information a model can reuse on new rows (and usually just orders rows in time); encode --keep ${name} passes it through.`);
+      `Drop: a numeric identifier — ${count(values.distinct)} distinct integers in ${count(f.nonMissing)} non-missing rows (${pct(share)}, at least ${pct(NUMERIC_IDENTIFIER_SHARE)} counts as one value per row; the most repeated value is on ${count(f.exact.maxRows)} row${f.exact.maxRows === 1 ? "" : "s"}). A row key carries no information a model can reuse on new rows (and usually just orders rows in time); encode --keep ${name} passes it through.`);
     return { ...column, recommendation: { encoding: "drop", params: { role: "identifier" }, reasons: column.recommendation.reasons }, numericValues: values };
   }
   const how = values.exact ? `${count(values.distinct)} distinct value${values.distinct === 1 ? "" : "s"} (exact)` : `${count(values.distinct)} distinct values in ${sampleWords(f.sample)}`;

@@ -5,7 +5,7 @@
  */
 import type { ColumnProfile, Profile, Recommendation } from "../profile/types.js";
 import { formatCompact, formatCount, formatNumber, formatShare } from "./format.js";
-import { numericValuesText, passThroughFigures, placeholderFigure } from "./passThroughFigures.js";
+import { numericValuesText, passThroughFigures, placeholderFigure, roleNotes } from "./passThroughFigures.js";
 
 /** A labelled figure: label and value are plain text (not escaped). */
 export interface Figure {
@@ -152,5 +152,6 @@ export function inputNotes(profile: Profile): string[] {
   const notes: string[] = [];
   if (profile.input.redacted) notes.push("Level values are redacted in this profile: the labels shown are stand-ins, not the values in the data.");
   if (profile.input.fromLevels) notes.push("Profiled from a level table (tailsift sql, then scan --levels), not from the raw rows.");
+  notes.push(...roleNotes(profile));
   return notes;
 }

@@ -46,3 +46,22 @@ export function placeholderFigure(column: ColumnProfile): Figure | null {
   const examples = p.top.slice(0, 3).map((l) => `'${l.value}' ${formatCount(l.rows)}`).join(", ");
   return { label: "spelled like missing (placeholders)", value: `${formatCount(p.rows)} (${share}) in ${formatCount(p.levels)} level${p.levels === 1 ? "" : "s"}: ${examples}${p.levels > 3 ? ", …" : ""} — --missing-like treats them as missing` };
 }
+
+/** Plain-words notes on the roles of this issue that appear in the profile (decision record and report). */
+export function roleNotes(profile: { columns: readonly ColumnProfile[] }): string[] {
+  const notes: string[] = [];
+  const has = (pred: (c: ColumnProfile) => boolean) => profile.columns.some(pred);
+  if (has((c) => c.role === "time")) {
+    notes.push("Role time: the column holds dates or timestamps (at least 95 % of the sampled values). It is a time axis, not a category, so its levels are not counted or encoded; encode passes it through unchanged, and the record gives its range, its granularity and the calendar parts (hour, day of week, month, year) worth deriving from it.");
+  }
+  if (has((c) => c.role === "identifier" && c.numericValues !== undefined)) {
+    notes.push("Numeric identifier: a column of integers with a different value on (nearly) every row (at least 99 %, counted exactly) is a row key, not a measurement; it is dropped (encode --keep passes it through).");
+  }
+  if (has((c) => c.role === "numeric")) {
+    notes.push("Role numeric: every sampled value is a plain number; it is passed through as a number however few values it has (a count of 0–5 stays a count), and the record says how many distinct values it has. --as-categorical profiles it as levels instead.");
+  }
+  if (has((c) => c.placeholders !== undefined)) {
+    notes.push("Placeholders: some levels are spelled like a missing value (unknown, N/A, [no …] and similar). They are still counted as levels; scan --missing-like VALUE,… reads them as missing in every command.");
+  }
+  return notes;
+}
