@@ -13,6 +13,7 @@ import { levelSql } from "../../src/commands/sql.js";
 import { withEngine } from "../../src/engine/db.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
 import { placeholderEntry, placeholderEntrySql } from "../../src/profile/placeholders.js";
+import { redactProfile } from "../../src/profile/redact.js";
 import type { ColumnProfile, Profile } from "../../src/profile/types.js";
 import { renderTable } from "../../src/render/table.js";
 import { collector, mulberry32, tempDir, writeFile } from "../helpers/tmp.js";
@@ -77,6 +78,13 @@ describe("placeholder levels in the record", () => {
     expect(c.placeholders?.top.map((t) => t.entry).sort()).toEqual(["-", "[no …]", "n/a", "unk", "unknown"]);
     const line = renderTable(profile).split("\n").find((l) => l.includes("│ breed")) ?? "";
     expect(line).toContain(`${((expected / N) * 100).toFixed(1)} %`);
+  });
+
+  it("redacts the placeholder level values with --redact (the matched list entry stays)", () => {
+    const top = col(redactProfile(profile, "test-key"), "breed").placeholders?.top ?? [];
+    expect(top.length).toBe(5);
+    for (const l of top) expect(l.value).toMatch(/^#[0-9a-f]{12}$/);
+    expect(top.map((l) => l.entry).sort()).toEqual(["-", "[no …]", "n/a", "unk", "unknown"]);
   });
 
   it("--missing-like makes them missing in scan, encode and drift", async () => {
