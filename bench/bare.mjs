@@ -10,6 +10,10 @@
  * --mode grouping  : one GROUP BY GROUPING SETS ((c1, fold), …, (fold)) reading the file once.
  * --mode percolumn : one GROUP BY (level, fold) per column, each reading the file (for Parquet,
  *                    whose column reader makes re-reads cheap).
+ * --mode unpivot   : for wide files: UNPIVOT INCLUDE NULLS every column but the target into
+ *                    (column, level) and one GROUP BY (column, level) with count and target sum —
+ *                    no fold (what a DuckDB user types to count every column's levels).
+ *                    `--columns '*'` means every column except the target.
  * The fold is DuckDB's hash(seed, every column of the row) % folds, like the scan's fold, so both
  * sides do the same hashing work. The result is kept in a temp table (as the scan keeps its level
  * table) and only its row count crosses into JavaScript; it is printed on stdout as JSON.
@@ -71,7 +75,14 @@ const fold = `hash(${Number(values.seed)}::BIGINT, ${identity.map(q).join(", ")}
 const y = `TRY_CAST(${q(values.target)} AS DOUBLE)`;
 
 const started = performance.now();
-if (values.mode === "percolumn") {
+if (values.mode === "unpivot") {
+  const all = values.columns === "*" ? identity.filter((c) => c !== values.target) : columns;
+  await con.run(`CREATE TEMP TABLE bare_levels AS
+    SELECT name AS col, value AS level, count(*) AS rows, count(__y) AS n_y, sum(__y) AS sum_y
+    FROM (SELECT ${y} AS __y, ${all.map((c) => `${q(c)}::VARCHAR AS ${q(c)}`).join(", ")} FROM ${reader})
+      UNPIVOT INCLUDE NULLS (value FOR name IN (${all.map(q).join(", ")}))
+    GROUP BY name, value`);
+} else if (values.mode === "percolumn") {
   await con.run(`CREATE TEMP TABLE bare_levels (col INTEGER, level VARCHAR, fold INTEGER, rows BIGINT, n_y BIGINT, sum_y DOUBLE)`);
   for (const [i, c] of columns.entries()) {
     await con.run(`INSERT INTO bare_levels
@@ -89,7 +100,8 @@ if (values.mode === "percolumn") {
     FROM (SELECT (${fold})::INTEGER AS fold, ${y} AS y, ${inner} FROM ${reader})
     GROUP BY GROUPING SETS (${sets})`);
 }
-const reader2 = await con.runAndReadAll("SELECT count(*)::DOUBLE AS n, sum(rows) FILTER (WHERE col = 0)::DOUBLE AS total FROM bare_levels");
+const first = values.mode === "unpivot" ? "(SELECT min(col) FROM bare_levels)" : "0";
+const reader2 = await con.runAndReadAll(`SELECT count(*)::DOUBLE AS n, sum(rows) FILTER (WHERE col = ${first})::DOUBLE AS total FROM bare_levels`);
 const [row] = reader2.getRowObjectsJS();
 process.stdout.write(`${JSON.stringify({ mode: values.mode, levelRows: row?.n, rows: row?.total, queryMs: Math.round(performance.now() - started) })}\n`);
 con.closeSync();

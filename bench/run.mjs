@@ -6,6 +6,8 @@
  *                      [--pandas-rows 1000000] [--data-dir bench/data] [--seed 20250630]
  *                      [--keep-data] [--rss auto|time|hook] [--python PATH] [--spill-runs 1]
  *                      [--results-dir bench/results] [--merge]
+ *                      [--wide-rows 10000] [--wide-cols 1500] [--wide-threads 1,2]
+ *                      [--big] [--big-rows 30000000] [--big-runs 1]   (or BENCH_BIG=1)
  *
  * For each row count it generates the sample scenario (CSV with sample-data/generate.mjs, Parquet
  * converted by DuckDB with all_varchar) and the stress table (bench/stress.mjs, DuckDB SQL), then
@@ -16,6 +18,9 @@
  *   pandas  read_csv + value_counts + groupby mean per column (bench/pandas_flow.py) vs scan
  *   memory  scan of the largest sample CSV under --memory-limit 1GB
  *   spill   scan of the largest stress CSV under --memory-limit 256MB with --temp-dir DATA/spill
+ *   wide    the wide table (bench/wide.mjs, 1,500 columns × 10k rows) vs the bare UNPIVOT query, per thread count
+ *   big     (only with --big) the 30M-row stress CSV on the defaults and under --memory-limit 1GB --temp-dir
+ * Every scan runs with TAILSIFT_TRACE=1; its trace is split into before the pass, the pass and the after-pass.
  * and writes bench/results/latest.json and latest.md. Medians over --runs runs (at least 3 for
  * the side-by-side comparisons). With --merge, the sections not run this time (e.g. after
  * `--only encode --merge`) are carried over from the existing latest.json.
@@ -31,7 +36,9 @@ import { DuckDBInstance } from "@duckdb/node-api";
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 const BENCH = path.join(ROOT, "bench");
 const CLI = path.join(ROOT, "dist", "cli.js");
-const SECTIONS = ["scan", "encode", "pandas", "memory", "spill"];
+const SECTIONS = ["scan", "encode", "pandas", "memory", "spill", "wide", "big"];
+/** Sections run by default; "big" (the 30M-row CSV, about half an hour) only with --big, BENCH_BIG=1 or --only big. */
+const DEFAULT_SECTIONS = SECTIONS.filter((s) => s !== "big");
 
 const SAMPLE_TARGET = "no_show";
 /** The categorical columns scan measures in the sample scenario (numeric: lead_time_days, invoice_amount). */
@@ -40,7 +47,7 @@ const SAMPLE_LEVEL_COLUMNS = ["appointment_id", "appointment_date", "clinic", "v
 const STRESS_TARGET = "y";
 const STRESS_LEVEL_COLUMNS = ["c01", "c02", "c03", "c04", "c05", "c06", "c07", "c08", "c09", "c10", "c11", "tail"];
 
-const GOALS = { scanOverBare: 1.25, encodeOverCopy: 2, pandasSpeed: 5, pandasMemory: 5, limitedRssGB: 1.6 };
+const GOALS = { scanOverBare: 1.25, encodeOverCopy: 2, pandasSpeed: 5, pandasMemory: 5, limitedRssGB: 1.6, wideOverBare: 2, wideRssGB: 1, bigRssGB: 3 };
 
 // ---- options ---------------------------------------------------------------------------------
 
@@ -59,6 +66,12 @@ function parseOptions() {
       rss: { type: "string", default: "auto" },
       python: { type: "string" },
       "spill-runs": { type: "string", default: "1" },
+      "wide-rows": { type: "string", default: "10000" },
+      "wide-cols": { type: "string", default: "1500" },
+      "wide-threads": { type: "string", default: "1,2" },
+      big: { type: "boolean", default: process.env.BENCH_BIG === "1" },
+      "big-rows": { type: "string", default: "30000000" },
+      "big-runs": { type: "string", default: "1" },
       help: { type: "boolean", short: "h", default: false },
     },
   });
@@ -75,7 +88,7 @@ function parseOptions() {
   const runs = Number(values.runs);
   if (!Number.isInteger(runs) || runs < 1) fail(`--runs must be a positive integer (got ${values.runs})`);
   if (runs < 3) warn(`--runs ${runs}: medians of fewer than 3 runs are not what the goals ask for`);
-  const only = values.only ? values.only.split(",").map((s) => s.trim()) : SECTIONS;
+  const only = values.only ? values.only.split(",").map((s) => s.trim()) : [...DEFAULT_SECTIONS, ...(values.big ? ["big"] : [])];
   for (const s of only) if (!SECTIONS.includes(s)) fail(`--only: '${s}' is not one of ${SECTIONS.join(", ")}`);
   if (!["auto", "time", "hook"].includes(values.rss)) fail("--rss must be auto, time or hook");
   const seed = Number(values.seed);
@@ -85,7 +98,16 @@ function parseOptions() {
     dataDir: path.resolve(values["data-dir"]), resultsDir: path.resolve(values["results-dir"]),
     seed, keepData: values["keep-data"], merge: values.merge, rss: values.rss, python: values.python,
     spillRuns: Math.max(1, Number(values["spill-runs"]) || 1),
+    wideRows: positive(values["wide-rows"], "wide-rows"), wideCols: positive(values["wide-cols"], "wide-cols"),
+    wideThreads: values["wide-threads"].split(",").map((t) => positive(t, "wide-threads")),
+    bigRows: positive(values["big-rows"], "big-rows"), bigRuns: positive(values["big-runs"], "big-runs"),
   };
+}
+
+function positive(text, what) {
+  const n = Number(String(text).replace(/_/g, ""));
+  if (!Number.isInteger(n) || n < 1) fail(`--${what}: '${text}' is not a positive integer`);
+  return n;
 }
 
 function fail(message) {
@@ -189,11 +211,11 @@ function dirBytes(dir) {
  * Runs one command as a child process and returns its wall time (measured here), peak RSS and CPU
  * time (from GNU time or the child's own report). stdout goes to /dev/null unless `capture`.
  */
-function measure(rssMethod, cmd, args, { capture = false, pollDir } = {}) {
+function measure(rssMethod, cmd, args, { capture = false, pollDir, env: extraEnv, fullStderr = false } = {}) {
   return new Promise((resolve) => {
     const stamp = `${process.pid}-${Math.random().toString(36).slice(2)}`;
     const report = path.join(os.tmpdir(), `bench-rss-${stamp}.txt`);
-    const env = { ...process.env };
+    const env = { ...process.env, ...extraEnv };
     let file = cmd;
     let argv = args;
     if (rssMethod.name === "time") {
@@ -209,7 +231,8 @@ function measure(rssMethod, cmd, args, { capture = false, pollDir } = {}) {
     let stdout = "";
     let stderr = "";
     child.stdout?.on("data", (d) => { stdout += d; });
-    child.stderr.on("data", (d) => { stderr = (stderr + d).slice(-4000); });
+    let allStderr = "";
+    child.stderr.on("data", (d) => { stderr = (stderr + d).slice(-4000); if (fullStderr) allStderr += d; });
     let poll = null;
     const seen = { bytes: 0, files: 0 };
     if (pollDir) {
@@ -240,7 +263,7 @@ function measure(rssMethod, cmd, args, { capture = false, pollDir } = {}) {
       } catch { /* no report: the child died before writing it */ }
       fs.rmSync(report, { force: true });
       // GNU time prefixes "Command exited with non-zero status" to its report; the exit code is the child's.
-      resolve({ ok: code === 0, code, wallMs: Math.round(wallMs), maxRssKB, cpuMs, stdout, stderr: stderr.trim().split("\n").slice(-5).join("\n"), spill: pollDir ? seen : undefined });
+      resolve({ ok: code === 0, code, wallMs: Math.round(wallMs), maxRssKB, cpuMs, stdout, stderr: stderr.trim().split("\n").slice(-5).join("\n"), spill: pollDir ? seen : undefined, ...(fullStderr ? { allStderr } : {}) });
     });
   });
 }
@@ -250,10 +273,12 @@ async function sideBySide(ctx, label, variants, runs) {
   const results = Object.fromEntries(variants.map((v) => [v.name, { command: v.display, runs: [] }]));
   for (let r = 1; r <= runs; r++) {
     for (const v of variants) {
-      const m = await measure(ctx.rssMethod, v.cmd, v.args, { capture: v.capture });
+      const m = await measure(ctx.rssMethod, v.cmd, v.args, { capture: v.capture, ...(v.trace ? { env: { TAILSIFT_TRACE: "1" }, fullStderr: true } : {}) });
       v.after?.();
-      results[v.name].runs.push({ wallMs: m.wallMs, maxRssKB: m.maxRssKB, cpuMs: m.cpuMs, ok: m.ok, ...(m.ok ? {} : { code: m.code, stderr: m.stderr }) });
-      log(`  ${label.padEnd(24)} ${v.name.padEnd(16)} run ${r}/${runs}  ${m.ok ? "" : `FAILED (exit ${m.code}) `}${fmtS(m.wallMs).padStart(9)}  ${fmtGB(m.maxRssKB).padStart(8)}  cpu ${fmtS(m.cpuMs)}`);
+      const split = v.trace && m.ok ? splitTrace(m.allStderr ?? "", m.wallMs) : undefined;
+      results[v.name].runs.push({ wallMs: m.wallMs, maxRssKB: m.maxRssKB, cpuMs: m.cpuMs, ok: m.ok, ...(split ? { split } : {}), ...(m.ok ? {} : { code: m.code, stderr: m.stderr }) });
+      log(`  ${label.padEnd(24)} ${v.name.padEnd(16)} run ${r}/${runs}  ${m.ok ? "" : `FAILED (exit ${m.code}) `}${fmtS(m.wallMs).padStart(9)}  ${fmtGB(m.maxRssKB).padStart(8)}  cpu ${fmtS(m.cpuMs)}` +
+        `${split ? `  (before ${fmtS(split.beforeMs)}, pass ${fmtS(split.passMs)}, after-pass ${fmtS(split.afterMs)})` : ""}`);
       if (!m.ok) log(`    ${m.stderr.replace(/\n/g, "\n    ")}`);
     }
   }
@@ -263,8 +288,30 @@ async function sideBySide(ctx, label, variants, runs) {
     res.wallMs = median(good.map((x) => x.wallMs));
     res.maxRssKB = median(good.map((x) => x.maxRssKB));
     res.cpuMs = median(good.map((x) => x.cpuMs));
+    if (good.some((x) => x.split)) {
+      res.split = Object.fromEntries(["beforeMs", "passMs", "afterMs", "outsideMs"].map((k) => [k, median(good.map((x) => x.split?.[k]))]));
+    }
   }
   return results;
+}
+
+/**
+ * Splits a scan's TAILSIFT_TRACE=1 lines ("[tailsift]  1234 ms  what") into before the pass
+ * (reading the header, sampling), the pass (the statements "scanning …" and the numeric counts
+ * that finish it) and the after-pass (every later statement); outside = wall time not in SQL
+ * (Node start-up, JavaScript).
+ */
+export function splitTrace(stderr, wallMs) {
+  const steps = [...stderr.matchAll(/^\[tailsift\]\s+(\d+) ms {2}(.*)$/gm)].map((m) => ({ ms: Number(m[1]), doing: m[2] }));
+  const isPass = (d) => d.startsWith("scanning") || d === "counting non-missing numeric values";
+  const first = steps.findIndex((s) => isPass(s.doing));
+  const last = steps.findLastIndex((s) => isPass(s.doing));
+  if (first < 0) return undefined;
+  const sum = (xs) => xs.reduce((a, s) => a + s.ms, 0);
+  const beforeMs = sum(steps.slice(0, first));
+  const passMs = sum(steps.slice(first, last + 1));
+  const afterMs = sum(steps.slice(last + 1));
+  return { beforeMs, passMs, afterMs, outsideMs: Math.max(0, wallMs - beforeMs - passMs - afterMs) };
 }
 
 // ---- data ------------------------------------------------------------------------------------
@@ -378,7 +425,7 @@ async function scanSection(ctx, ds) {
   const variants = [
     { name: "bare-grouping", cmd: process.execPath, args: bareArgs("grouping"), display: "node bench/bare.mjs --mode grouping", capture: true },
     ...(ds.format === "Parquet" ? [{ name: "bare-percolumn", cmd: process.execPath, args: bareArgs("percolumn"), display: "node bench/bare.mjs --mode percolumn", capture: true }] : []),
-    { name: "scan", cmd: process.execPath, args: scanArgs(ds), display: `node dist/cli.js scan FILE --target ${ds.target} --quiet --format json` },
+    { name: "scan", cmd: process.execPath, args: scanArgs(ds), display: `TAILSIFT_TRACE=1 node dist/cli.js scan FILE --target ${ds.target} --quiet --format json`, trace: true },
   ];
   const res = await sideBySide(ctx, label(ds), variants, ctx.opts.runs);
   const bares = Object.entries(res).filter(([k, v]) => k.startsWith("bare") && v.ok && v.wallMs != null);
@@ -390,6 +437,7 @@ async function scanSection(ctx, ds) {
     timeRatio: scan.ok ? ratio(scan.wallMs, bare?.wallMs) : null,
     rssRatio: scan.ok ? ratio(scan.maxRssKB, bare?.maxRssKB) : null,
     cpuRatio: scan.ok ? ratio(scan.cpuMs, bare?.cpuMs) : null,
+    passRatio: scan.ok ? ratio(scan.split?.passMs, bare?.wallMs) : null,
   };
   ctx.results.scan.push(out);
   log(`  → scan/bare (${bareName}): time ${fmtX(out.timeRatio)}, peak RSS ${fmtX(out.rssRatio)}, CPU ${fmtX(out.cpuRatio)}`);
@@ -504,6 +552,55 @@ async function spillSection(ctx, ds) {
   ctx.results.spill.push({ dataset: ds.key, scenario: ds.scenario, format: ds.format, rows: ds.rows, bytes: fs.statSync(ds.file).size, limit: "256MB", configs });
 }
 
+/** The wide table (bench/wide.mjs): scan vs the bare UNPIVOT + GROUP BY (column, level), at each thread count. */
+async function wideSection(ctx) {
+  const { wideRows: rows, wideCols: cols, seed } = ctx.opts;
+  const file = path.join(ctx.opts.dataDir, `wide-${cols}x${fmtRows(rows)}.csv`);
+  await ensureFile(file, { rows, cols, seed, kind: "wide-csv" },
+    async () => runNode([path.join(BENCH, "wide.mjs"), "--rows", String(rows), "--cols", String(cols), "--seed", String(seed), "--out", file]));
+  const ds = { scenario: "wide", format: "CSV", rows, file };
+  for (const threads of ctx.opts.wideThreads) {
+    const t = ["--threads", String(threads)];
+    const variants = [
+      { name: "bare-unpivot", cmd: process.execPath, args: [path.join(BENCH, "bare.mjs"), file, "--target", "y", "--columns", "*", "--mode", "unpivot", ...t],
+        display: `node bench/bare.mjs FILE --target y --columns '*' --mode unpivot --threads ${threads}`, capture: true },
+      { name: "scan", cmd: process.execPath, args: [CLI, "scan", file, "--target", "y", "--quiet", "--format", "json", ...t],
+        display: `TAILSIFT_TRACE=1 node dist/cli.js scan FILE --target y --quiet --format json --threads ${threads}`, trace: true },
+    ];
+    const res = await sideBySide(ctx, `wide ${cols}×${fmtRows(rows)} ${threads}thr`, variants, ctx.opts.runs);
+    const bare = res["bare-unpivot"];
+    const scan = res.scan;
+    const out = {
+      dataset: "wide-csv", scenario: "wide", format: "CSV", rows, cols, threads, bytes: fs.statSync(file).size, variants: res,
+      timeRatio: scan.ok ? ratio(scan.wallMs, bare.wallMs) : null, rssRatio: scan.ok ? ratio(scan.maxRssKB, bare.maxRssKB) : null,
+      cpuRatio: scan.ok ? ratio(scan.cpuMs, bare.cpuMs) : null,
+    };
+    ctx.results.wide.push(out);
+    log(`  → wide scan/bare (${threads} thread${threads > 1 ? "s" : ""}): time ${fmtX(out.timeRatio)}, peak RSS ${fmtGB(scan.maxRssKB)} (bare ${fmtGB(bare.maxRssKB)})`);
+  }
+  if (!ctx.opts.keepData) removeData(file);
+  void ds;
+}
+
+/** The multi-gigabyte case: the stress CSV at --big-rows (30M rows ≈ 2.1 GB) on the defaults and under 1 GB with a temp dir. */
+async function bigSection(ctx) {
+  const ds = datasetsFor(ctx, ctx.opts.bigRows).stressCsv;
+  await ds.make();
+  const spill = path.join(ctx.opts.dataDir, "spill-big");
+  fs.rmSync(spill, { recursive: true, force: true });
+  fs.mkdirSync(spill, { recursive: true });
+  const variants = [
+    { name: "scan-defaults", cmd: process.execPath, args: scanArgs(ds), display: "node dist/cli.js scan FILE --target y --quiet --format json", trace: true },
+    { name: "scan-1GB", cmd: process.execPath, args: scanArgs(ds, ["--memory-limit", "1GB", "--temp-dir", spill]),
+      display: "node dist/cli.js scan FILE --target y --memory-limit 1GB --temp-dir DATA/spill-big --quiet --format json", trace: true,
+      after: () => { fs.rmSync(spill, { recursive: true, force: true }); fs.mkdirSync(spill, { recursive: true }); } },
+  ];
+  const res = await sideBySide(ctx, `big stress CSV ${fmtRows(ds.rows)}`, variants, ctx.opts.bigRuns);
+  ctx.results.big.push({ dataset: ds.key, scenario: ds.scenario, format: ds.format, rows: ds.rows, bytes: fs.statSync(ds.file).size, variants: res });
+  fs.rmSync(spill, { recursive: true, force: true });
+  if (!ctx.opts.keepData) removeData(ds.file);
+}
+
 // ---- goals and report ----------------------------------------------------------------------------
 
 function evaluateGoals(ctx) {
@@ -544,6 +641,25 @@ function evaluateGoals(ctx) {
         display: v.ok ? `${fmtGB(v.maxRssKB)} in ${fmtS(v.wallMs)}${note10M(r.rows)}` : "failed", status: status(v.ok ? v.maxRssKB / 2 ** 20 < GOALS.limitedRssGB : false) });
     }
   }
+  if (ctx.report.sections.has("wide")) {
+    for (const r of ctx.results.wide) {
+      const s = r.variants.scan;
+      goals.push({ goal: `wide ${r.cols}×${fmtRows(r.rows)}, ${r.threads} thread(s): scan ≤ ${GOALS.wideOverBare}× bare UNPIVOT`, rows: r.rows, measured: r.timeRatio,
+        display: s.ok ? `${fmtX(r.timeRatio)} (scan ${fmtS(s.wallMs)} vs ${fmtS(r.variants["bare-unpivot"].wallMs)})` : "failed", status: status(r.timeRatio == null ? false : r.timeRatio <= GOALS.wideOverBare) });
+      goals.push({ goal: `wide ${r.cols}×${fmtRows(r.rows)}, ${r.threads} thread(s): peak RSS ≤ ${GOALS.wideRssGB} GB`, rows: r.rows, measured: s.maxRssKB,
+        display: s.ok ? fmtGB(s.maxRssKB) : "failed", status: status(s.ok ? s.maxRssKB / 2 ** 20 <= GOALS.wideRssGB : false) });
+    }
+  }
+  if (ctx.report.sections.has("big")) {
+    for (const r of ctx.results.big) {
+      for (const [name, limit] of [["scan-defaults", GOALS.bigRssGB], ["scan-1GB", GOALS.limitedRssGB]]) {
+        const v = r.variants[name];
+        goals.push({ goal: `${fmtRows(r.rows)}-row stress CSV (${fmtGB(r.bytes / 1024)}), ${name === "scan-defaults" ? "defaults" : "--memory-limit 1GB --temp-dir"}: completes, peak RSS ≤ ${limit} GB`,
+          rows: r.rows, measured: v?.maxRssKB, display: v?.ok ? `${fmtS(v.wallMs)}, ${fmtGB(v.maxRssKB)}` : `failed: ${v?.runs?.find((x) => !x.ok)?.stderr ?? ""}`,
+          status: status(v?.ok ? v.maxRssKB / 2 ** 20 <= limit : false) });
+      }
+    }
+  }
   if (ctx.report.sections.has("spill")) {
     for (const r of ctx.results.spill) {
       for (const c of r.configs) {
@@ -558,7 +674,7 @@ function evaluateGoals(ctx) {
 
 function ratioTables(ctx) {
   const lines = [];
-  const { scan, encode, pandas, memory, spill } = ctx.results;
+  const { scan, encode, pandas, memory, spill, wide = [], big = [] } = ctx.results;
   if (scan.length) {
     lines.push("### scan vs the bare engine", "",
       "| rows | data | bare (best) | bare time | scan time | scan/bare time | bare RSS | scan RSS | scan/bare RSS | scan/bare CPU |",
@@ -568,6 +684,25 @@ function ratioTables(ctx) {
       const s = r.variants.scan;
       const alt = Object.entries(r.variants).filter(([k]) => k.startsWith("bare") && k !== r.bare).map(([k, v]) => ` (${k.replace("bare-", "")} ${fmtS(v.wallMs)})`).join("");
       lines.push(`| ${fmtRows(r.rows)} | ${r.scenario} ${r.format} | ${(r.bare ?? "–").replace("bare-", "")}${alt} | ${fmtS(b.wallMs)} | ${s.ok ? fmtS(s.wallMs) : "failed"} | ${fmtX(r.timeRatio)} | ${fmtGB(b.maxRssKB)} | ${fmtGB(s.maxRssKB)} | ${fmtX(r.rssRatio)} | ${fmtX(r.cpuRatio)} |`);
+    }
+    lines.push("", ...splitTable(scan.map((r) => ({ label: `${fmtRows(r.rows)} ${r.scenario} ${r.format}`, v: r.variants.scan, bare: r.variants[r.bare] }))));
+  }
+  if (wide.length) {
+    lines.push("### wide file: scan vs the bare UNPIVOT + GROUP BY (column, level)", "",
+      "| columns × rows | threads | bare time | scan time | scan/bare time | bare RSS | scan RSS | scan/bare CPU |", "| --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: |");
+    for (const r of wide) {
+      const b = r.variants["bare-unpivot"];
+      const s = r.variants.scan;
+      lines.push(`| ${r.cols} × ${fmtRows(r.rows)} (${fmtGB(r.bytes / 1024)}) | ${r.threads} | ${fmtS(b.wallMs)} | ${s.ok ? fmtS(s.wallMs) : "failed"} | ${fmtX(r.timeRatio)} | ${fmtGB(b.maxRssKB)} | ${fmtGB(s.maxRssKB)} | ${fmtX(r.cpuRatio)} |`);
+    }
+    lines.push("", ...splitTable(wide.map((r) => ({ label: `wide ${r.cols}×${fmtRows(r.rows)} ${r.threads} thr`, v: r.variants.scan, bare: r.variants["bare-unpivot"] }))));
+  }
+  if (big.length) {
+    lines.push("### multi-gigabyte CSV", "", "| rows | data | options | time | peak RSS | before / pass / after-pass |", "| ---: | --- | --- | ---: | ---: | --- |");
+    for (const r of big) {
+      for (const [name, v] of Object.entries(r.variants)) {
+        lines.push(`| ${fmtRows(r.rows)} | ${r.scenario} ${r.format} (${fmtGB(r.bytes / 1024)}) | ${name === "scan-defaults" ? "defaults" : "--memory-limit 1GB --temp-dir"} | ${v.ok ? fmtS(v.wallMs) : "failed"} | ${fmtGB(v.maxRssKB)} | ${v.split ? `${fmtS(v.split.beforeMs)} / ${fmtS(v.split.passMs)} / ${fmtS(v.split.afterMs)}` : "–"} |`);
+      }
     }
     lines.push("");
   }
@@ -610,6 +745,14 @@ function ratioTables(ctx) {
     lines.push("");
   }
   return lines;
+}
+
+/** The scan's time split from TAILSIFT_TRACE=1 (medians), with the pass against the bare query. */
+function splitTable(rows) {
+  const withSplit = rows.filter((r) => r.v?.split);
+  if (withSplit.length === 0) return [];
+  return ["| data | before the pass | the pass | pass/bare | after-pass | outside SQL |", "| --- | ---: | ---: | ---: | ---: | ---: |",
+    ...withSplit.map((r) => `| ${r.label} | ${fmtS(r.v.split.beforeMs)} | ${fmtS(r.v.split.passMs)} | ${fmtX(ratio(r.v.split.passMs, r.bare?.wallMs))} | ${fmtS(r.v.split.afterMs)} | ${fmtS(r.v.split.outsideMs)} |`), ""];
 }
 
 function markdown(ctx, goals) {
@@ -674,7 +817,7 @@ async function main() {
   const rssMethod = chooseRssMethod(opts.rss);
   const pandas = opts.only.has("pandas") ? findPandas(opts.python) : null;
   const encode = opts.only.has("encode") ? encodeAvailable() : { available: false };
-  const ctx = { opts, rssMethod, pandas, encode, argv: process.argv.slice(2), results: { scan: [], encode: [], pandas: [], memory: [], spill: [] } };
+  const ctx = { opts, rssMethod, pandas, encode, argv: process.argv.slice(2), results: { scan: [], encode: [], pandas: [], memory: [], spill: [], wide: [], big: [] } };
   ctx.report = { sections: new Set(opts.only), encodeAvailable: encode.available, pandasAvailable: Boolean(pandas) };
   const previous = opts.merge ? readPrevious(path.join(opts.resultsDir, "latest.json")) : null;
   ctx.machine = await machineInfo(rssMethod.describe, pandas);
@@ -702,6 +845,9 @@ async function main() {
     if (rows === largest && opts.only.has("spill")) await spillSection(ctx, ds.stressCsv);
     if (!opts.keepData) for (const d of Object.values(ds)) removeData(d.file);
   }
+
+  if (opts.only.has("wide")) { log("\n== wide file =="); await wideSection(ctx); }
+  if (opts.only.has("big")) { log(`\n== multi-gigabyte CSV (${fmtRows(opts.bigRows)} rows) ==`); await bigSection(ctx); }
 
   ctx.machine.loadAverageAtEnd = os.loadavg().map((x) => Number(x.toFixed(2)));
   if (previous) mergePrevious(ctx, previous);

@@ -10,11 +10,12 @@ import { decisions, engineOptions, fraction, integer, list, sourceOptions } from
 import { removePendingTemps } from "./commands/output.js";
 import { progressEnabled, startProgress } from "./commands/progress.js";
 import { runReport, runScan, type ScanCliOptions } from "./commands/scanCli.js";
-import { toolVersion } from "./commands/scan.js";
+import { toolVersion } from "./version.js";
 import { addSqlCommand } from "./commands/sqlCli.js";
 import { addDriftCommand } from "./commands/driftCli.js";
 import { addEncodeCommand } from "./commands/encodeCli.js";
 import type { Engine } from "./engine/db.js";
+import { DEFAULT_FOLD_COUNT, DEFAULT_FOLD_SEED } from "./engine/folds.js";
 import type { CliIO } from "./commands/io.js";
 import { isTailsiftError } from "./errors.js";
 
@@ -39,13 +40,15 @@ export function buildProgram(io: CliIO): Command {
     .option("--columns <names>", "profile only these columns (comma-separated, repeatable)", list)
     .option("--exclude <names>", "leave these columns out (comma-separated, repeatable)", list)
     .option("--as-categorical <names>", "profile these numeric-looking columns as levels", list)
-    .option("--folds <k>", "folds for out-of-fold figures", integer("--folds"), 5)
-    .option("--seed <n>", "seed of the fold assignment", integer("--seed"), 42)
+    .option("--folds <k>", "folds for out-of-fold figures", integer("--folds"), DEFAULT_FOLD_COUNT)
+    .option("--seed <n>", "seed of the fold assignment", integer("--seed"), DEFAULT_FOLD_SEED)
+    .option("--fold-by <names>", "entity-grouped folds: hash these key columns (comma-separated) so every row of an entity shares a fold", list)
     .option("--top <n>", "top levels listed per column", integer("--top"), 20)
     .option("--max-one-hot <n>", "widest one-hot block advised", integer("--max-one-hot"), 16)
     .option("--min-level-rows <n>", "rows a level needs for its own column", integer("--min-level-rows"), 30)
     .option("--coverage <share>", "row share pooled one-hot must cover", fraction("--coverage"), 0.95)
     .option("--collision-budget <share>", "largest colliding row share for hashing", fraction("--collision-budget"), 0.01)
+    .option("--min-gain <share>", "share of the overall mean's out-of-fold loss a candidate must save (default 0.001)", fraction("--min-gain"))
     .option("--decide <column=encoding>", "override the advice for a column (repeatable)", decisions)
     .addOption(new Option("--format <format>", "output format").choices(["table", "json", "markdown"]).default("table"))
     .option("--out <dir>", "write profile.json, decisions.md, report.html and levels.parquet to this folder")

@@ -7,6 +7,7 @@ export { readProfile, writeReportFolder } from "./commands/scanCli.js";
 export { validateProfile, PROFILE_SCHEMA } from "./profile/schema.js";
 export type {
   Profile, ProfileTarget, ProfileSettings, ColumnProfile, ColumnRole, Encoding, LevelFigure, Recommendation, TargetKind,
+  PriorWeight, FoldContract,
 } from "./profile/types.js";
 export { DEFAULT_POLICY } from "./advice/policy.js";
 export type { AdvicePolicy } from "./advice/policy.js";

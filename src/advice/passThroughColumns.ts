@@ -11,7 +11,7 @@
  *   time-ordered validation, and calendar parts can be derived from it; it is never encoded as
  *   levels.
  */
-import { looksNumeric, looksTime, needsExactDistinct, NUMERIC_IDENTIFIER_MIN_ROWS, NUMERIC_IDENTIFIER_SHARE, SAMPLE_ROWS, type ColumnSample } from "../engine/inspect.js";
+import { NUMERIC_IDENTIFIER_MIN_ROWS, NUMERIC_IDENTIFIER_SHARE, SAMPLE_ROWS, type ColumnSample } from "../engine/inspect.js";
 import type { PassTotals } from "../engine/aggregate.js";
 import { calendarParts, formatTimeBound, timeGranularity, TIME_SHARE, type TimeTotals } from "../engine/timeColumns.js";
 import { unmeasuredColumn } from "../profile/columnFigures.js";
@@ -71,14 +71,6 @@ export function timeColumnProfile(name: string, f: PassThroughFacts): ColumnProf
     recommendation: { encoding: "keep", params: { role: "time" }, reasons },
     time: { min, max, granularity, parsedRows: t.parsed, unparsedRows: unparsed, sampledShare: sampled, calendarParts: parts },
   };
-}
-
-/** Sampled columns split by kind: time first (dates are not numbers), then numeric; --as-categorical (`forced`) wins. */
-export function sampledKinds(samples: readonly ColumnSample[], forced: ReadonlySet<string>): { numeric: string[]; time: string[]; distinct: string[] } {
-  const free = samples.filter((s) => !forced.has(s.name));
-  const time = free.filter(looksTime).map((s) => s.name);
-  const numericSamples = free.filter((s) => !time.includes(s.name) && looksNumeric(s));
-  return { numeric: numericSamples.map((s) => s.name), time, distinct: numericSamples.filter(needsExactDistinct).map((s) => s.name) };
 }
 
 /** The profile of a numeric or time column after the pass. */

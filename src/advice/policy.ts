@@ -1,3 +1,5 @@
+import { DEFAULT_FOLD_COUNT, DEFAULT_FOLD_SEED } from "../engine/folds.js";
+
 /** The policy options that turn a column's numbers into advice; every default can be overridden. */
 export interface AdvicePolicy {
   /** Widest one-hot block we recommend (kept levels, plus "other" when pooled). */
@@ -11,8 +13,14 @@ export interface AdvicePolicy {
   /** Hash widths considered: 2^minBits … 2^maxBits. */
   hashMinBits: number;
   hashMaxBits: number;
+  /** K of the out-of-fold figures and of target-kfold (checked by engine/folds). */
   folds: number;
   seed: number;
+  /**
+   * Practical margin: a candidate must beat the overall mean by at least this share of its
+   * out-of-fold loss (log loss or squared error), besides the one-standard-error rule.
+   */
+  minGain: number;
 }
 
 export const DEFAULT_POLICY: AdvicePolicy = {
@@ -22,8 +30,9 @@ export const DEFAULT_POLICY: AdvicePolicy = {
   collisionBudget: 0.01,
   hashMinBits: 4,
   hashMaxBits: 24,
-  folds: 5,
-  seed: 42,
+  folds: DEFAULT_FOLD_COUNT,
+  seed: DEFAULT_FOLD_SEED,
+  minGain: 0.001,
 };
 
 /** The hash widths considered, smallest first. */

@@ -1,5 +1,5 @@
 /**
- * advice/recommend: the rules of ../shared/DESIGN.md ("How a recommendation is reached"), in
+ * advice/recommend: the rules described in DEVELOPERS.md ("Adding a rule"), in
  * order. Each rule returns a recommendation with parameters and reasons (sentences carrying the
  * numbers that decided), or null to pass the column on to the next rule.
  */

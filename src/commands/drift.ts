@@ -10,6 +10,7 @@ import path from "node:path";
  */
 import { buildLevelTable } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
+import { singleFold } from "../engine/folds.js";
 import { describeFiles, openSource, type SourceOptions } from "../engine/source.js";
 import { planMissingLike } from "../engine/missingLike.js";
 import type { TargetSpec } from "../engine/target.js";
@@ -70,10 +71,10 @@ async function compare(
     ? { column: planTarget.column, kind: planTarget.kind, ...(planTarget.positive !== undefined ? { positive: planTarget.positive } : {}) }
     : undefined;
 
-  // Folds play no part in drift: K = 1 puts every row in fold 0 (the hash reads one column only).
+  // Folds play no part in drift: every row in fold 0.
   const totals = await buildLevelTable(engine, {
-    view: source.view, identityColumns: source.columns.slice(0, 1), levelColumns: present.map((c) => c.name),
-    countColumns: [], ...(targetSpec ? { target: targetSpec } : {}), folds: 1, seed: 0,
+    view: source.view, levelColumns: present.map((c) => c.name),
+    countColumns: [], ...(targetSpec ? { target: targetSpec } : {}), fold: singleFold(),
   }, `reading ${describeFiles(source.files)}`);
   if (totals.rows === 0) throw new TailsiftError("empty_input", `${describeFiles(source.files)} has a header but no rows`);
 

@@ -10,11 +10,11 @@
  * 3. Small mapping tables per column (per level, or per level and fold) inside DuckDB.
  * 4. ONE `COPY (SELECT …) TO` writes the output in input order (encode/lookup explains how),
  *    to a temporary file that is renamed into place with the mappings folder beside it.
- * Folds are the scan's: foldSql(profile.settings.foldColumns, seed, folds) over the same text view.
+ * Folds are the scan's: the plan's fold contract (engine/folds, readFoldContract) over the same text view.
  */
 import fs from "node:fs";
 import path from "node:path";
-import { foldSql } from "../engine/aggregate.js";
+import { foldSql, readFoldContract, singleFold } from "../engine/folds.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { describeFiles, openSource, type SourceOptions } from "../engine/source.js";
 import { planMissingLike } from "../engine/missingLike.js";
@@ -25,7 +25,7 @@ import { outputFormat } from "../encode/outputFile.js";
 import { buildColumnMap, type ColumnMap } from "../encode/columnMaps.js";
 import { inputLevelsFromPass, inputLevelsFromPlan, planLevels } from "../encode/levelTables.js";
 import { chooseLookup, prepareLookup, type LookupKind, type LookupRef } from "../encode/lookup.js";
-import { foldColumnsOf, planColumns } from "../encode/planColumns.js";
+import { planColumns } from "../encode/planColumns.js";
 import { FOLD_FIELD, ref } from "../encode/expressions.js";
 import type { EncodeMode, EncodeSummary } from "../encode/types.js";
 import type { Profile } from "../profile/types.js";
@@ -100,8 +100,9 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
   const plan = planColumns(profile, source.columns, { mode: o.mode, keep: o.keep ?? [], keepOriginal: o.keepOriginal ?? false, foldColumn: o.foldColumn });
   if (plan.names.length === 0) throw new TailsiftError("nothing_to_write", "the plan drops every column of the input; nothing to write (use --keep to pass columns through)");
   const names = plan.encoded.map((c) => c.name);
-  const folds = profile.settings.folds;
-  const foldExpr = training ? foldSql(foldColumnsOf(profile), profile.settings.seed, folds) : null;
+  const folding = training ? readFoldContract(profile.settings) : singleFold();
+  const folds = training ? folding.k : profile.settings.folds;
+  const foldExpr = training ? foldSql(folding) : null;
   const target = profile.target ? { column: profile.target.column, kind: profile.target.kind, ...(profile.target.positive !== undefined ? { positive: profile.target.positive } : {}) } : undefined;
   const targetEncoded = plan.encoded.some((c) => c.spec.encoding === "target-kfold");
   if (targetEncoded && !target) throw new TailsiftError("bad_plan", "the plan target-encodes a column but has no target; rescan with --target");
@@ -116,8 +117,7 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
       levelSource = "plan level table";
     } else {
       await inputLevelsFromPass(engine, names, {
-        view: source.view, identity: training ? foldColumnsOf(profile) : names.slice(0, 1),
-        folds: training ? folds : 1, seed: training ? profile.settings.seed : 0, ...(needsTarget && target ? { target } : {}),
+        view: source.view, fold: folding, ...(needsTarget && target ? { target } : {}),
       }, `reading ${describeFiles(source.files)}`);
       levelSource = "input pass";
     }

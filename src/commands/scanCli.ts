@@ -7,20 +7,22 @@ import path from "node:path";
 import type { Engine } from "../engine/db.js";
 import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
 import { TailsiftError } from "../errors.js";
+import { readProfile } from "../profile/readProfile.js";
 import { validateProfile } from "../profile/schema.js";
+export { readProfile };
 import type { Encoding, Profile } from "../profile/types.js";
 import { redactProfile } from "../profile/redact.js";
 import { renderDecisionRecord } from "../render/markdown.js";
 import { renderTable } from "../render/table.js";
 import { ensureOutputDir, pendingTemps, refuseInputAsOutput, tempPathFor, writeFileAtomic } from "./output.js";
-import { scanLevels } from "./levels.js";
+import { scanLevels, type LevelScanOptions } from "./levels.js";
 import { scan } from "./scan.js";
-import { levelScanOptions } from "./sqlCli.js";
 
 export interface ScanCliOptions {
   target?: string; positive?: string; targetKind?: "binary" | "continuous";
   columns?: string[]; exclude?: string[]; asCategorical?: string[];
   folds: number; seed: number; top: number; maxOneHot: number; minLevelRows: number; coverage: number; collisionBudget: number;
+  minGain?: number;
   decide?: Record<string, Encoding>;
   format: "table" | "json" | "markdown";
   out?: string;
@@ -30,6 +32,8 @@ export interface ScanCliOptions {
   /** The inputs are level tables (from the query of `tailsift sql`), not raw rows. */
   levels?: boolean;
   redact?: boolean;
+  /** Entity-grouped folds by these key columns. */
+  foldBy?: string[];
 }
 
 interface IO { stdout: (t: string) => void; stderr: (t: string) => void }
@@ -56,8 +60,8 @@ async function scanAndWrite(inputs: string[], o: ScanCliOptions, io: IO, onEngin
   const measured = o.levels ? await scanLevels(inputs, { ...levelScanOptions(o, onEngine), levelTableOut: levelTemp }) : await scan(inputs, {
     target: o.target, positive: o.positive, targetKind: o.targetKind,
     columns: o.columns, exclude: o.exclude, asCategorical: o.asCategorical, top: o.top,
-    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget },
-    decide: o.decide,
+    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget, ...(o.minGain !== undefined ? { minGain: o.minGain } : {}) },
+    decide: o.decide, ...(o.foldBy !== undefined ? { foldBy: o.foldBy } : {}),
     memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
     skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter, missingLike: o.missingLike,
     levelTableOut: levelTemp,
@@ -87,22 +91,6 @@ export async function writeReportFolder(profile: Profile, dir: string): Promise<
   writeFileAtomic(path.join(dir, "report.html"), html);
 }
 
-/** Reads and validates a saved profile.json. */
-export function readProfile(file: string): Profile {
-  let text: string;
-  try {
-    text = fs.readFileSync(file, "utf8");
-  } catch {
-    throw new TailsiftError("input_not_found", `profile '${file}' not found; give the profile.json written by scan --out`);
-  }
-  let data: unknown;
-  try {
-    data = JSON.parse(text);
-  } catch {
-    throw new TailsiftError("bad_profile", `'${file}' is not JSON; give the profile.json written by scan --out`);
-  }
-  return validateProfile(data, file);
-}
 
 export async function runReport(profilePath: string, out: string, io: IO): Promise<void> {
   const profile = readProfile(profilePath);
@@ -110,4 +98,20 @@ export async function runReport(profilePath: string, out: string, io: IO): Promi
   ensureOutputDir(path.dirname(path.resolve(out)));
   writeFileAtomic(out, await htmlReport(profile));
   io.stderr(`wrote ${out}\n`);
+}
+
+/**
+ * `scan --levels`: maps the scan command's options onto scanLevels. Options about reading raw
+ * rows (--as-categorical, --skip-bad-rows, --encoding) are refused; --delimiter applies to CSV
+ * level tables; --folds only matters for a one-fold table (the K recorded for target-kfold).
+ */
+export function levelScanOptions(o: ScanCliOptions, onEngine: (e: Engine | null) => void): LevelScanOptions {
+  const refused = [o.foldBy !== undefined ? "--fold-by" : "", o.asCategorical?.length ? "--as-categorical" : "", o.skipBadRows ? "--skip-bad-rows" : "", o.encoding ? "--encoding" : "", o.missingLike?.length ? "--missing-like (give it to tailsift sql)" : ""].filter((x) => x);
+  if (refused.length > 0) throw new TailsiftError("bad_option", `${refused.join(", ")} do${refused.length === 1 ? "es" : ""} not apply to --levels: level tables are already counted`);
+  return {
+    target: o.target, positive: o.positive, targetKind: o.targetKind, columns: o.columns, exclude: o.exclude, top: o.top,
+    policy: { folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget, ...(o.minGain !== undefined ? { minGain: o.minGain } : {}) },
+    decide: o.decide, memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir, delimiter: o.delimiter,
+    levelTableOut: o.out && !o.redact ? path.join(o.out, LEVEL_FILE_NAME) : undefined, onEngine,
+  };
 }

@@ -32,6 +32,7 @@ function fallbackCondition(column: EncodedColumn, mode: EncodeMode, leaveOneOut:
     case "codes": return "l.level IS NOT NULL AND coalesce(m.value, 0) = 0";
     case "target-kfold":
       if (spec.structure) return structureFallbackCondition(spec.structure, mode);
+      if (spec.weight === null) return "l.level IS NOT NULL"; // m = ∞: every level gets the prior
       if (mode === "scoring") return "l.level IS NOT NULL AND m.level IS NULL";
       if (leaveOneOut) return `l.level IS NOT NULL AND (m.level IS NULL OR m.n_y - 1 + ${sqlDouble(spec.weight)} <= 0)`;
       return "l.level IS NOT NULL AND (m.level IS NULL OR m.n_other <= 0)";

@@ -45,13 +45,17 @@ function lookupOf(column: EncodedColumn, ctx: ExprContext): LookupRef {
   return ctx.lookup;
 }
 
-/** Target encoding; `m` is the flat weight (null: backoff or hierarchical, no leave-one-out form). */
-function targetSql(column: EncodedColumn, m: number | null, ctx: ExprContext): string {
+/**
+ * Target encoding; `m` is the flat weight (null: m = ∞, the prior; undefined: backoff or
+ * hierarchical, no leave-one-out form).
+ */
+function targetSql(column: EncodedColumn, m: number | null | undefined, ctx: ExprContext): string {
   const look = lookupOf(column, ctx);
   const p = variable(priorVar(column.index));
   if (ctx.mode === "scoring") return `coalesce(${look.value("value")}, ${p})`;
   if (!ctx.leaveOneOut) return `coalesce(${look.value("value")}, ${variable(foldPriorVar(column.index))}[${ref(FOLD_FIELD)} + 1])`;
-  if (m === null) throw new Error(`column '${column.name}' has no leave-one-out form`);
+  if (m === undefined) throw new Error(`column '${column.name}' has no leave-one-out form`);
+  if (m === null) return p;
   const n = `${look.value("n_y")}::DOUBLE`;
   const s = look.value("sum_y");
   const y = ref(Y_FIELD);
@@ -76,6 +80,6 @@ export function columnSql(column: EncodedColumn, ctx: ExprContext): string[] {
     case "hashing": return [spec.grouping ? `${lookupOf(column, ctx).value("bucket")}::BIGINT` : bucketSql(c, spec.width, spec.salt)];
     case "frequency": return [`coalesce(${lookupOf(column, ctx).value("value")}, 0::DOUBLE)`];
     case "codes": return [`coalesce(${lookupOf(column, ctx).value("value")}, 0)::BIGINT`];
-    case "target-kfold": return [targetSql(column, spec.structure ? null : spec.weight, ctx)];
+    case "target-kfold": return [targetSql(column, spec.structure ? undefined : spec.weight, ctx)];
   }
 }

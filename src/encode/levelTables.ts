@@ -8,6 +8,7 @@
  */
 import { buildLevelTable, LEVEL_TABLE } from "../engine/aggregate.js";
 import type { Engine } from "../engine/db.js";
+import type { FoldContract } from "../engine/folds.js";
 import { quoteLiteral, sqlNumber } from "../engine/sql.js";
 import type { TargetSpec } from "../engine/target.js";
 import { TailsiftError } from "../errors.js";
@@ -53,10 +54,8 @@ export async function inputLevelsFromPlan(engine: Engine, levelsPath: string, na
 
 export interface PassSpec {
   view: string;
-  /** Columns the fold hash reads (the plan's foldColumns in training; any one column otherwise). */
-  identity: readonly string[];
-  folds: number;
-  seed: number;
+  /** The plan's fold contract in training; a single fold otherwise. */
+  fold: FoldContract;
   target?: TargetSpec;
 }
 
@@ -68,8 +67,8 @@ export interface PassSpec {
  */
 export async function inputLevelsFromPass(engine: Engine, names: readonly string[], pass: PassSpec, doing: string): Promise<number> {
   const totals = await buildLevelTable(engine, {
-    view: pass.view, identityColumns: pass.identity, levelColumns: names, countColumns: [],
-    ...(pass.target ? { target: pass.target } : {}), folds: pass.folds, seed: pass.seed,
+    view: pass.view, levelColumns: names, countColumns: [],
+    ...(pass.target ? { target: pass.target } : {}), fold: pass.fold,
   }, doing);
   if (pass.target && totals.badTargets > 0) {
     throw new TailsiftError("bad_target", `target '${pass.target.column}': ${totals.badTargets} values do not fit the plan's ${pass.target.kind} target${pass.target.positive !== undefined ? ` (positive '${pass.target.positive}')` : ""}; clean them or rescan`);

@@ -34,7 +34,8 @@ function positiveInteger(column: string, value: unknown, name: string): number {
  * The encoding a plan column asks for: "drop", "keep" (pass through) or a checked spec.
  * Edge cases: indicator levels may be null (null = the missing level); one-hot with no levels
  * writes no column; codes without `tableSize` number every level; target-kfold needs a finite
- * weight m ≥ 0 (0 = raw means, with the prior used where a level has no rows); target-kfold with
+ * weight m ≥ 0 (0 = raw means, with the prior used where a level has no rows) or null (m = ∞, no
+ * detectable spread: every level takes the prior); target-kfold with
  * `grouping: "backoff"` or `prior: "hierarchical"`, and hashing with `grouping: "backoff"` (the
  * advice for identifier-like nesting codes without a target), are read by encode/structureParams.
  * @throws TailsiftError `bad_plan` for a missing or malformed parameter, an unknown encoding or
@@ -42,7 +43,9 @@ function positiveInteger(column: string, value: unknown, name: string): number {
  *   or a hierarchical prior on one other than target-kfold.
  */
 export function encodingSpec(column: ColumnProfile): EncodingSpec | "drop" | "keep" {
-  const { encoding, params } = column.recommendation;
+  const { encoding } = column.recommendation;
+  // the plan is a file a user may have edited: its parameters are read as unknown and checked
+  const params: Record<string, unknown> = Object.fromEntries(Object.entries(column.recommendation.params));
   const name = column.name;
   const groupable = encoding === "target-kfold" || (encoding === "hashing" && params.prior === undefined);
   if (!groupable && (params.grouping !== undefined || params.prior !== undefined)) {
@@ -72,7 +75,9 @@ export function encodingSpec(column: ColumnProfile): EncodingSpec | "drop" | "ke
       const structure = targetStructure(name, params);
       if (structure) return { encoding, structure };
       const m = params.weight;
-      if (typeof m !== "number" || !Number.isFinite(m) || m < 0) throw bad(name, "params.weight (the prior weight m) must be a number ≥ 0");
+      // null: no detectable spread, m = ∞ — every level takes the prior (never read as 0)
+      if (m === null) return { encoding, weight: null };
+      if (typeof m !== "number" || !Number.isFinite(m) || m < 0) throw bad(name, "params.weight (the prior weight m) must be a number ≥ 0, or null (no detectable spread: the prior)");
       return { encoding, weight: m };
     }
     default: throw bad(name, `unknown encoding '${String(encoding)}'`);

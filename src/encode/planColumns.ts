@@ -2,6 +2,7 @@
  * encode/planColumns: decides, for every input column, what the output holds — the encoded
  * column(s), the column unchanged, or nothing — and checks that the plan fits the input.
  */
+import { readFoldContract } from "../engine/folds.js";
 import { TailsiftError } from "../errors.js";
 import type { Profile } from "../profile/types.js";
 import { checkUniqueNames, outputNames, textName } from "./names.js";
@@ -27,15 +28,6 @@ export interface ColumnPlan {
 
 const list = (names: readonly string[]) => names.map((n) => `'${n}'`).join(", ");
 
-/** The plan's fold identity: settings.foldColumns (every column of the scanned input, in file order). */
-export function foldColumnsOf(profile: Profile): string[] {
-  const cols = profile.settings.foldColumns;
-  if (!Array.isArray(cols) || cols.length === 0 || !cols.every((c) => typeof c === "string")) {
-    throw new TailsiftError("bad_plan", "the plan has no settings.foldColumns (it was not made by scan over raw rows), so training folds cannot be reproduced; rescan the training extract");
-  }
-  return cols as string[];
-}
-
 /**
  * Plans the output columns. Input columns the plan does not know are left out (unless --keep
  * names them); `--keep` wins over the plan; the target and numeric columns pass through.
@@ -53,7 +45,7 @@ export function planColumns(profile: Profile, inputColumns: readonly string[], o
   }
   const specs = new Map(profile.columns.map((c) => [c.name, encodingSpec(c)]));
   const needed = new Set(profile.columns.filter((c) => c.name !== target && specs.get(c.name) !== "drop").map((c) => c.name));
-  if (o.mode === "training") for (const c of foldColumnsOf(profile)) needed.add(c);
+  if (o.mode === "training") for (const c of readFoldContract(profile.settings).keyColumns) needed.add(c);
   const missing = [...needed].filter((c) => !present.has(c));
   if (missing.length > 0) {
     throw new TailsiftError("plan_mismatch", `the input lacks the plan's column${missing.length === 1 ? "" : "s"} ${list(missing.slice(0, 8))}${missing.length > 8 ? " …" : ""}; the plan was made from ${list(profile.input.paths.slice(0, 2))} — encode data with the same columns or rescan`);

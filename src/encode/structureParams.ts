@@ -34,16 +34,24 @@ function weight(column: string, value: unknown, name: string): number | null {
 /**
  * The backoff grouping of a plan column (`grouping: "backoff"`, target-kfold or hashing):
  * `parents` given deepest first (as in the plan), returned shallowest first, and `minRows`.
- * Edge cases: an empty parents list, a malformed parent, minRows not a number ≥ 0 →
- * TailsiftError `bad_plan`.
+ * With `allowPooling` (target-kfold) an empty parents list pools: levels with fewer than minRows
+ * rows share "other" (the pooled target encoding of identifier-like columns). Edge cases: an
+ * empty parents list otherwise, a malformed parent, minRows not a number ≥ 0 → `bad_plan`.
  */
-export function backoffGrouping(column: string, params: Record<string, unknown>): HashGrouping {
+export function backoffGrouping(column: string, params: Record<string, unknown>, allowPooling = false): HashGrouping {
   const parents = params.parents;
+  // target-kfold only: an empty list is pooling — a level with ≥ minRows rows keeps its group, rarer ones share "other"
+  if (allowPooling && Array.isArray(parents) && parents.length === 0) return { kind: "backoff", parents: [], minRows: minRowsOf(column, params) };
   if (!Array.isArray(parents) || parents.length === 0) throw bad(column, "params.parents must be a non-empty list of parents, deepest first");
-  const minRows = params.minRows;
-  if (typeof minRows !== "number" || !Number.isFinite(minRows) || minRows < 0) throw bad(column, "params.minRows must be a number ≥ 0");
+  const minRows = minRowsOf(column, params);
   const specs = parents.map((p, i) => parentSpec(column, p, `parents[${i}]`));
   return { kind: "backoff", parents: specs.reverse(), minRows };
+}
+
+function minRowsOf(column: string, params: Record<string, unknown>): number {
+  const minRows = params.minRows;
+  if (typeof minRows !== "number" || !Number.isFinite(minRows) || minRows < 0) throw bad(column, "params.minRows must be a number ≥ 0");
+  return minRows;
 }
 
 /**
@@ -66,7 +74,7 @@ export function targetStructure(column: string, params: Record<string, unknown>)
   const { grouping, prior } = params;
   if (grouping === undefined && prior === undefined) return undefined;
   if (grouping !== undefined && prior !== undefined) throw bad(column, "params has both a grouping and a prior; give one");
-  if (grouping === "backoff") return { ...backoffGrouping(column, params), weight: weight(column, params.weight, "weight") };
+  if (grouping === "backoff") return { ...backoffGrouping(column, params, true), weight: weight(column, params.weight, "weight") };
   if (prior === "hierarchical") {
     return {
       kind: "hierarchical", parent: parentSpec(column, params.parent, "parent"),

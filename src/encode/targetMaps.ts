@@ -23,6 +23,8 @@ export const foldPriorVar = (i: number): string => `tailsift_enc_fold_prior_${i}
 
 /** A double as exact SQL (the text round-trips; DuckDB parses it as DOUBLE, not DECIMAL). */
 export const sqlDouble = (x: number): string => `CAST(${quoteLiteral(sqlNumber(x))} AS DOUBLE)`;
+/** A flat weight as SQL: null is m = ∞ (NULL: mEstimateSql then gives the prior). */
+const weightOrNull = (m: number | null): string => (m === null ? "NULL::DOUBLE" : sqlDouble(m));
 
 
 
@@ -30,13 +32,13 @@ export const sqlDouble = (x: number): string => `CAST(${quoteLiteral(sqlNumber(x
  * Sets p (`priorVar(i)`) to `prior` (SQL) and creates `fullTable(i)`(level, rows, n_y, sum_y,
  * value) from `from` (a level table with name, level, rows, n_y, sum_y; folds are summed).
  */
-export async function fullTargetMap(engine: Engine, i: number, from: string, name: string, m: number, prior: string): Promise<void> {
+export async function fullTargetMap(engine: Engine, i: number, from: string, name: string, m: number | null, prior: string): Promise<void> {
   await engine.run(`SET VARIABLE ${priorVar(i)} = (${prior})::DOUBLE`, `setting the prior of '${name}'`);
   const p = `getvariable(${quoteLiteral(priorVar(i))})`;
   await engine.run(
     `CREATE OR REPLACE TEMP TABLE ${fullTable(i)} AS
      SELECT level, sum(rows)::BIGINT AS rows, sum(n_y)::BIGINT AS n_y, sum(sum_y)::DOUBLE AS sum_y,
-            ${mEstimateSql("sum(sum_y)", "sum(n_y)", sqlDouble(m), p)} AS value
+            ${mEstimateSql("sum(sum_y)", "sum(n_y)", weightOrNull(m), p)} AS value
      FROM ${from} WHERE name = ${quoteLiteral(name)} AND level IS NOT NULL GROUP BY level`,
     `building the target mapping of '${name}'`);
 }
@@ -70,7 +72,7 @@ export async function foldPriors(engine: Engine, i: number, from: string, name: 
  * Creates `mapTable(i)`(level, fold, n_other, sum_other, prior_other, value), dense over every
  * level × fold, and the list variable `foldPriorVar(i)` of the other-folds priors.
  */
-export async function outOfFoldMap(engine: Engine, i: number, from: string, name: string, m: number, folds: number): Promise<void> {
+export async function outOfFoldMap(engine: Engine, i: number, from: string, name: string, m: number | null, folds: number): Promise<void> {
   const col = quoteLiteral(name);
   await foldPriors(engine, i, from, name, folds);
   await engine.run(
@@ -79,6 +81,6 @@ export async function outOfFoldMap(engine: Engine, i: number, from: string, name
           t AS (SELECT level, sum(n) AS tn, sum(s) AS ts FROM l GROUP BY level),
           o AS (SELECT t.level, p.fold, t.tn - coalesce(l.n, 0) AS n_other, t.ts - coalesce(l.s, 0) AS sum_other, p.prior AS prior_other
                 FROM t CROSS JOIN ${foldPriorTable(i)} p LEFT JOIN l ON l.level = t.level AND l.fold = p.fold)
-     SELECT level, fold, n_other, sum_other, prior_other, ${mEstimateSql("sum_other", "n_other", sqlDouble(m), "prior_other")} AS value FROM o`,
+     SELECT level, fold, n_other, sum_other, prior_other, ${mEstimateSql("sum_other", "n_other", weightOrNull(m), "prior_other")} AS value FROM o`,
     `building the out-of-fold mapping of '${name}'`);
 }

@@ -2,7 +2,7 @@
  * encode/types: the shapes `tailsift encode` works with — the validated encoding of one column,
  * what the output holds, and the summary printed at the end.
  */
-import type { ParentSpec } from "../hierarchy/types.js";
+import type { ParentSpec } from "../profile/hierarchyTypes.js";
 import type { Encoding } from "../profile/types.js";
 
 export type EncodeMode = "training" | "scoring";
@@ -16,7 +16,8 @@ export type EncodingSpec =
   | { encoding: "hashing"; width: number; salt: string; grouping: HashGrouping }
   | { encoding: "frequency" }
   | { encoding: "codes"; tableSize: number }
-  | { encoding: "target-kfold"; weight: number; structure?: undefined }
+  /** weight null: no detectable spread, m = ∞ (every level takes the prior). */
+  | { encoding: "target-kfold"; weight: number | null; structure?: undefined }
   | { encoding: "target-kfold"; structure: TargetStructure };
 
 /**

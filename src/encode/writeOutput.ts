@@ -6,9 +6,10 @@
  */
 import fs from "node:fs";
 import path from "node:path";
-import { toolVersion } from "../commands/scan.js";
+import { toolVersion } from "../version.js";
 import { pendingTemps, tempPathFor } from "../commands/output.js";
 import type { Engine } from "../engine/db.js";
+import { readFoldContract } from "../engine/folds.js";
 import type { Source } from "../engine/source.js";
 import { quoteIdent, quoteLiteral } from "../engine/sql.js";
 import { targetSql, type TargetSpec } from "../engine/target.js";
@@ -116,6 +117,9 @@ export async function writeOutput(engine: Engine, ctx: WriteContext): Promise<En
   }
 }
 
+const foldManifest = (column: string, f: { kind: string; k: number; seed: number; hash: string; keyColumns: string[] }) =>
+  ({ column, k: f.k, seed: f.seed, hash: f.hash, identityColumns: f.keyColumns, ...(f.kind === "grouped" ? { kind: "grouped" } : {}) });
+
 function manifest(ctx: WriteContext, entries: Record<string, unknown>[]): Record<string, unknown> {
   const { profile, options: o } = ctx;
   const t = profile.target;
@@ -125,7 +129,7 @@ function manifest(ctx: WriteContext, entries: Record<string, unknown>[]): Record
     plan: { paths: profile.input.paths, fingerprint: profile.input.fingerprint },
     input: { paths: ctx.source.files, fingerprint: ctx.source.fingerprint },
     output: { file: path.basename(o.out), columns: ctx.plan.names },
-    ...(ctx.foldExpr ? { folds: { column: o.foldColumn, k: profile.settings.folds, seed: profile.settings.seed, hash: profile.settings.foldHash ?? null, identityColumns: profile.settings.foldColumns } } : {}),
+    ...(ctx.foldExpr ? { folds: foldManifest(o.foldColumn, readFoldContract(profile.settings)) } : {}),
     ...(t ? { target: { column: t.column, kind: t.kind, positive: t.positive ?? null, mean: t.mean } } : {}),
     columns: entries,
   };

@@ -7,30 +7,14 @@
  * of target values that did not fit the target kind and the non-missing count of numeric columns.
  */
 import type { Engine } from "./db.js";
+import { foldSql } from "./folds.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
-import type { TargetSpec } from "./target.js";
 import { targetSql } from "./target.js";
 import { readTimeTotals, timePassAggregates, timeTotalsSql, timeValueSql, type TimeTotals } from "./timeColumns.js";
+import { buildWideLevelTable, useWidePass } from "./widePass.js";
 
-export const LEVEL_TABLE = "tailsift_levels";
-export const FOLD_HASH_NAME = "duckdb-hash-of-row-text";
-
-export interface PassPlan {
-  view: string;
-  /** Every column of the input in file order: the row identity the fold hash reads. */
-  identityColumns: readonly string[];
-  /** Columns whose levels are counted. */
-  levelColumns: readonly string[];
-  /** Columns for which only the non-missing count is kept (numeric columns). */
-  countColumns: readonly string[];
-  /** Date/time columns: exact min, max and granularity aggregates (engine/timeColumns); not levels. */
-  timeColumns?: readonly string[];
-  /** Numeric columns whose exact distinct count is wanted (identifier screen, few values): counted without folds, read and removed after the pass. */
-  distinctColumns?: readonly string[];
-  target?: TargetSpec;
-  folds: number;
-  seed: number;
-}
+export { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
+import { DISTINCT_COL_BASE, LEVEL_TABLE, type PassPlan } from "./passPlan.js";
 
 export interface PassTotals {
   rows: number;
@@ -46,21 +30,11 @@ export interface PassTotals {
   distinct?: Map<string, { distinct: number; maxRows: number }>;
 }
 
-/**
- * The fold of a row: a seeded hash of the row's full text (every column, in file order) modulo K.
- * Rows that are exact duplicates share a fold, so duplicates cannot leak across folds.
- * The same expression is used by `encode`, so scan and encode assign every row the same fold.
- */
-export function foldSql(identityColumns: readonly string[], seed: number, folds: number): string {
-  const cols = identityColumns.map(quoteIdent).join(", ");
-  return `(hash(${sqlNumber(Math.trunc(seed))}::BIGINT, ${cols}) % ${sqlNumber(folds)})::INTEGER`;
-}
-
 /** The level-table query. For a binary target y ∈ {0, 1}, so Σy² = Σy and is not summed twice. */
 export function levelPassSql(plan: PassPlan): string {
   const target = plan.target ? targetSql(plan.target) : { y: "NULL::DOUBLE", bad: "false" };
   const inner = [
-    `${foldSql(plan.identityColumns, plan.seed, plan.folds)} AS __fold`,
+    `${foldSql(plan.fold)} AS __fold`,
     `${target.y} AS __y`,
     `${target.bad} AS __bad`,
     ...plan.levelColumns.map((c, i) => `${quoteIdent(c)} AS __v${i}`),
@@ -68,9 +42,9 @@ export function levelPassSql(plan: PassPlan): string {
     ...(plan.timeColumns ?? []).map((c, i) => `${timeValueSql(quoteIdent(c))} AS __t${i}`),
     ...(plan.distinctColumns ?? []).map((c, i) => `${quoteIdent(c)} AS __k${i}`),
   ];
-  // distinct-counted columns are grouped without the fold, as col = -2 - j (removed after the pass)
+  // distinct-counted columns are grouped without the fold, as col = DISTINCT_COL_BASE - j (read and removed after the pass)
   const keys = plan.distinctColumns ?? [];
-  const grouped = [...plan.levelColumns.map((_, i) => ({ v: `__v${i}`, col: i })), ...keys.map((_, j) => ({ v: `__k${j}`, col: -2 - j }))];
+  const grouped = [...plan.levelColumns.map((_, i) => ({ v: `__v${i}`, col: i })), ...keys.map((_, j) => ({ v: `__k${j}`, col: DISTINCT_COL_BASE - j }))];
   const sets = [...plan.levelColumns.map((_, i) => `(__v${i}, __fold)`), "(__fold)", ...keys.map((_, j) => `(__k${j})`)];
   const which = grouped.length === 0
     ? "-1"
@@ -96,6 +70,13 @@ export const PASS_BATCH = 200;
 
 /** Runs the pass and returns the totals; the level table stays in DuckDB. */
 export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "scanning the input"): Promise<PassTotals> {
+  // wide inputs: one unnest pass (engine/widePass) builds the same table; totals are read below
+  if (useWidePass(plan)) await buildWideLevelTable(engine, plan, doing);
+  else await buildGroupingSetsLevelTable(engine, plan, doing);
+  return readPassTotals(engine, plan);
+}
+
+async function buildGroupingSetsLevelTable(engine: Engine, plan: PassPlan, doing: string): Promise<void> {
   const first = plan.levelColumns.slice(0, PASS_BATCH);
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TABLE} AS ${levelPassSql({ ...plan, levelColumns: first })}`, doing);
   for (let offset = PASS_BATCH; offset < plan.levelColumns.length; offset += PASS_BATCH) {
@@ -105,21 +86,30 @@ export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "s
       `INSERT INTO ${LEVEL_TABLE} BY NAME SELECT col + ${sqlNumber(offset)} AS col, level, fold, rows, n_y, sum_y, sum_y2, bad FROM (${sql}) WHERE col >= 0`,
       `${doing} (columns ${offset + 1}–${offset + batch.length})`);
   }
+}
+
+/** Exact distinct values per distinct-counted column (summed over folds), then their rows are removed. */
+async function readDistinctCounts(engine: Engine, plan: PassPlan): Promise<Map<string, { distinct: number; maxRows: number }>> {
   const keys = plan.distinctColumns ?? [];
   const distinct = new Map<string, { distinct: number; maxRows: number }>();
-  if (keys.length > 0) {
-    const found = await engine.rows<{ col: number; d: number; mx: number }>(
-      `SELECT col, count(*)::DOUBLE AS d, max(rows)::DOUBLE AS mx FROM ${LEVEL_TABLE} WHERE col <= -2 AND level IS NOT NULL GROUP BY col`, "counting distinct numeric values");
-    keys.forEach((c) => distinct.set(c, { distinct: 0, maxRows: 0 }));
-    for (const r of found) { const c = keys[-2 - r.col]; if (c !== undefined) distinct.set(c, { distinct: r.d, maxRows: r.mx }); }
-    await engine.run(`DELETE FROM ${LEVEL_TABLE} WHERE col <= -2`, "counting distinct numeric values");
-  }
-  const times = plan.timeColumns ?? [];
+  if (keys.length === 0) return distinct;
+  const found = await engine.rows<{ col: number; d: number; mx: number }>(
+    `SELECT col, count(*)::DOUBLE AS d, max(r)::DOUBLE AS mx
+     FROM (SELECT col, level, sum(rows) AS r FROM ${LEVEL_TABLE} WHERE col <= ${sqlNumber(DISTINCT_COL_BASE)} AND level IS NOT NULL GROUP BY col, level)
+     GROUP BY col`, "counting distinct numeric values");
+  keys.forEach((c) => distinct.set(c, { distinct: 0, maxRows: 0 }));
+  for (const r of found) { const c = keys[DISTINCT_COL_BASE - r.col]; if (c !== undefined) distinct.set(c, { distinct: r.d, maxRows: r.mx }); }
+  await engine.run(`DELETE FROM ${LEVEL_TABLE} WHERE col <= ${sqlNumber(DISTINCT_COL_BASE)}`, "counting distinct numeric values");
+  return distinct;
+}
+
+async function readPassTotals(engine: Engine, plan: PassPlan): Promise<PassTotals> {
+  const distinct = await readDistinctCounts(engine, plan);
   const counts = plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("");
   const rows = await engine.rows<Record<string, number>>(
     `SELECT fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, bad::DOUBLE AS bad${counts}
      FROM ${LEVEL_TABLE} WHERE col = -1 GROUP BY ALL ORDER BY fold`, "reading the pass totals");
-  const foldRows = Array.from({ length: plan.folds }, () => 0);
+  const foldRows = Array.from({ length: plan.fold.k }, () => 0);
   const totals: PassTotals = { rows: 0, foldRows, targetRows: 0, sumY: 0, sumY2: 0, badTargets: 0, nonMissing: new Map(), time: new Map(), distinct };
   for (const r of rows) {
     foldRows[r.fold ?? 0] = r.rows ?? 0;
@@ -130,8 +120,9 @@ export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "s
     totals.badTargets += r.bad ?? 0;
     plan.countColumns.forEach((c, i) => totals.nonMissing.set(c, (totals.nonMissing.get(c) ?? 0) + (r[`nn${i}`] ?? 0)));
   }
+  const times = plan.timeColumns ?? [];
   if (times.length > 0) {
-    // the time aggregates are summed over folds in one more row (min/max cannot be added per fold in JS as text)
+    // the time aggregates are combined over folds in SQL (min/max of timestamps, not of text in JS)
     const [all] = await engine.rows<Record<string, unknown>>(
       `SELECT ${times.map((_, i) => timeTotalsSql(i)).join(", ")} FROM ${LEVEL_TABLE} WHERE col = -1`, "reading the time ranges");
     times.forEach((c, i) => totals.time?.set(c, readTimeTotals(all ?? {}, i)));

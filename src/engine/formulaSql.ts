@@ -1,8 +1,12 @@
 /**
- * engine/formulaSql: the two formulas that must run inside DuckDB because their inputs are sized
- * by the number of levels. Each mirrors a function in stats/ (the reference, with its source and
- * tests) and lives here once; leakage, evidence and encode all build their SQL from these.
+ * engine/formulaSql: the formulas that must run inside DuckDB because their inputs are sized by
+ * the number of levels (one row per (level, fold) — too many to cross into JavaScript). Each
+ * mirrors a function in stats/ (the reference, with its source and tests; test/stats/formulaSql
+ * checks each against it on the same data) and lives here once; leakage, evidence and encode all
+ * build their SQL from these. The last step of each figure (AUC = U/(P·N), R² = 1 − SSE/SST, the
+ * loss per row) runs in stats/ on the sums these return.
  */
+import { LOG_LOSS_EPS } from "../stats/logLossFromGroups.js";
 
 /**
  * The m-estimate (Cestnik 1990; stats/mEstimate): (sum + m·prior)/(n + m), or exactly the prior
@@ -14,9 +18,10 @@ export function mEstimateSql(sum: string, n: string, m: string, prior: string): 
 }
 
 /**
- * The Mann–Whitney U statistic (ties count ½; stats/aucFromGroups): from `grouped`, a query of
- * (partition columns…, score, pos, neg) with one row per distinct score, sums per partition
- * pos·(negatives scored lower + neg/2). AUC = u / (positives · negatives), computed by the caller.
+ * The Mann–Whitney U statistic (ties count ½; mirrors stats/aucFromGroups mannWhitneyU): from
+ * `grouped`, a query of (partition columns…, score, pos, neg) with one row per distinct score,
+ * sums per partition pos·(negatives scored lower + neg/2). The caller turns the sums into the AUC
+ * with stats/aucFromGroups aucFromU (U / (positives · negatives)).
  * Output columns: the partition columns, u, positives, negatives.
  */
 export function mannWhitneyUSql(grouped: string, partition: readonly string[]): string {
@@ -37,4 +42,14 @@ export function meanIntervalExcludesSql(n: string, sum: string, sumSquares: stri
   const centred = `(${sumSquares} - ${sum} * ${mean})`;
   const half = `(${factor} * sqrt(CASE WHEN ${centred} <= 1e-12 * ${sumSquares} THEN 0 ELSE ${centred} / (${n} - 1) END))`;
   return `(${mean} - ${half} > ${value} OR ${mean} + ${half} < ${value})`;
+}
+
+/**
+ * One group's log-loss sum −[pos·ln p + neg·ln(1 − p)] with p = `pred` clipped to
+ * [LOG_LOSS_EPS, 1 − LOG_LOSS_EPS] (mirrors stats/logLossFromGroups, which shares the constant;
+ * summed per fold by the caller, divided by the rows in evidence/foldLoss).
+ */
+export function logLossSql(pos: string, neg: string, pred: string): string {
+  const p = `greatest(${LOG_LOSS_EPS}, least(1 - ${LOG_LOSS_EPS}, ${pred}))`;
+  return `-(${pos} * ln(${p}) + ${neg} * ln(1 - ${p}))`;
 }

@@ -16,6 +16,7 @@
 import type { Engine } from "./db.js";
 import { quoteIdent } from "./sql.js";
 import { TIME_SHARE, timeValueSql } from "./timeColumns.js";
+import { sampleCountsUnnested } from "./wideSample.js";
 
 export const SAMPLE_ROWS = 50_000;
 /**
@@ -46,6 +47,11 @@ export interface ColumnSample {
 
 /** Per-column counts over the first SAMPLE_ROWS rows. */
 export async function sampleColumns(engine: Engine, view: string, columns: readonly string[]): Promise<ColumnSample[]> {
+  // wide inputs: one unnested query reads the first rows once (engine/wideSample); same counts
+  if (columns.length > SAMPLE_BATCH) {
+    const counts = await sampleCountsUnnested(engine, view, columns, SAMPLE_ROWS, { number: NUMBER_RE, integer: INTEGER_RE, time: timeValueSql });
+    return columns.map((name, i) => ({ name, ...counts[i]! }));
+  }
   const out: ColumnSample[] = [];
   // in batches: one query per SAMPLE_BATCH columns keeps memory bounded on very wide inputs
   for (let start = 0; start < columns.length; start += SAMPLE_BATCH) {

@@ -6,10 +6,13 @@
  * folds, shrunk toward the other folds' overall mean with weight m. Missing levels take the
  * prior (the same fallback the encoder uses). Grouping rows by encoded value gives, per column,
  * (score, positives, negatives); the Mann–Whitney U statistic (ties count one half) is summed
- * over the sorted distinct scores with a running count of negatives below. For continuous
- * targets the squared error Σ(y − e)² = Σ(sum_y2 − 2·e·sum_y + n·e²) is summed the same way.
+ * over the sorted distinct scores with a running count of negatives below (engine/formulaSql,
+ * mirroring stats/aucFromGroups mannWhitneyU). For continuous targets the squared error
+ * Σ(y − e)² = Σ(sum_y2 − 2·e·sum_y + n·e²) is summed the same way (as stats/rSquaredFromGroups).
+ * The sums stay in SQL (groups are sized by the level table); the AUC and R² are computed from
+ * them by stats/aucFromGroups aucFromU and stats/rSquaredFromGroups rSquaredFromSums (profile/targetFigures leakageMetric).
  */
-import type { TargetKind } from "../profile/types.js";
+import type { TargetKind } from "./target.js";
 import type { Engine } from "./db.js";
 import { LEVEL_TABLE } from "./aggregate.js";
 import { LEVEL_TOTALS } from "./levels.js";
@@ -29,8 +32,9 @@ export interface LeakageSums {
   rows: number;
 }
 
-function scoredSql(weights: ReadonlyMap<number, number>): string {
-  const values = [...weights].map(([col, m]) => `(${sqlNumber(col)}, ${sqlNumber(m)}::DOUBLE)`).join(", ");
+/** A weight of null is m = ∞ (no detectable spread): every level scores the prior. */
+function scoredSql(weights: ReadonlyMap<number, number | null>): string {
+  const values = [...weights].map(([col, m]) => `(${sqlNumber(col)}, ${m === null ? "NULL" : sqlNumber(m)}::DOUBLE)`).join(", ");
   return `w(col, m) AS (VALUES ${values}),
   ft AS (SELECT fold, n_y::DOUBLE AS fn, sum_y AS fs FROM ${LEVEL_TABLE} WHERE col = -1),
   g AS (SELECT sum(fn) AS tn, sum(fs) AS ts FROM ft),
@@ -49,8 +53,8 @@ function scoredSql(weights: ReadonlyMap<number, number>): string {
     FROM lv JOIN ft USING (fold) CROSS JOIN g)`;
 }
 
-/** In-sample and out-of-fold sums for every column in `weights` (col → m used). */
-export async function leakageSums(engine: Engine, weights: ReadonlyMap<number, number>, kind: TargetKind): Promise<LeakageSums[]> {
+/** In-sample and out-of-fold sums for every column in `weights` (col → m used; null = ∞). */
+export async function leakageSums(engine: Engine, weights: ReadonlyMap<number, number | null>, kind: TargetKind): Promise<LeakageSums[]> {
   if (weights.size === 0) return [];
   if (kind === "continuous") {
     return engine.rows<LeakageSums>(

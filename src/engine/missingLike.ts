@@ -3,7 +3,7 @@
  * missing when it is NULL (an empty CSV field, a JSON/Parquet null) or, with `--missing-like
  * VALUE,…`, when its trimmed, lower-cased text is one of the given values. `openSource` applies
  * it once, in the text view `tailsift_src` that scan, encode and drift read, and `tailsift sql`
- * writes the same expression into its query, so every command agrees on which rows are missing
+ * writes the same expression into its query (portableSql/levelSql), so every command agrees on which rows are missing
  * (the fold hash reads the view too, so scan and encode assign the same folds when they use the
  * same list; the list is recorded in profile.json settings.missingLike).
  */
@@ -21,13 +21,22 @@ export function normaliseMissingLike(values: readonly string[] | undefined): str
   return [...out].sort();
 }
 
+/** How a dialect spells the pieces of missingLikeSql (portableSql/dialects has one per engine). */
+export interface MissingLikeSpelling {
+  literal(s: string): string;
+  trim(expr: string): string;
+  lower(expr: string): string;
+}
+
+const DUCKDB: MissingLikeSpelling = { literal: quoteLiteral, trim: (e) => `TRIM(${e})`, lower: (e) => `LOWER(${e})` };
+
 /**
- * `expr` with the missing-like values turned into NULL. Portable SQL (CASE, LOWER, TRIM, IN);
- * `literal` quotes a value for the dialect. No values: `expr` unchanged.
+ * `expr` with the missing-like values turned into NULL: CASE WHEN lower(trim(expr)) IN (…) THEN
+ * NULL ELSE expr END, spelled for the engine by `d` (DuckDB's by default). No values: `expr` unchanged.
  */
-export function missingLikeSql(expr: string, values: readonly string[], literal: (s: string) => string = quoteLiteral): string {
+export function missingLikeSql(expr: string, values: readonly string[], d: MissingLikeSpelling = DUCKDB): string {
   if (values.length === 0) return expr;
-  return `CASE WHEN LOWER(TRIM(${expr})) IN (${values.map(literal).join(", ")}) THEN NULL ELSE ${expr} END`;
+  return `CASE WHEN ${d.lower(d.trim(expr))} IN (${values.map(d.literal).join(", ")}) THEN NULL ELSE ${expr} END`;
 }
 
 /**

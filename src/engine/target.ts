@@ -4,8 +4,10 @@
  * values that do not fit the kind are counted as `bad` in the pass and rejected afterwards.
  */
 import { TailsiftError } from "../errors.js";
-import type { TargetKind } from "../profile/types.js";
 import { quoteIdent, quoteLiteral } from "./sql.js";
+
+/** How a target becomes y: 0/1 (binary) or a number (continuous). */
+export type TargetKind = "binary" | "continuous";
 
 export const POSITIVE_WORDS = ["1", "1.0", "true", "t", "yes", "y"];
 export const NEGATIVE_WORDS = ["0", "0.0", "false", "f", "no", "n"];

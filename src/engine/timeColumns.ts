@@ -30,11 +30,18 @@ export function timeValueSql(text: string): string {
 
 export type TimeGranularity = "day" | "hour" | "minute" | "second" | "sub-second";
 
-/** The per-fold aggregates of one time column in the pass; `t` is the column's TIMESTAMP alias. */
-export function timePassAggregates(t: string, i: number): string {
-  const notWhole = (unit: string, name: string) => `count(${t}) FILTER (WHERE ${t} <> date_trunc('${unit}', ${t}))::BIGINT AS __t${name}${i}`;
-  return [`min(${t}) AS __tmin${i}`, `max(${t}) AS __tmax${i}`, `count(${t})::BIGINT AS __tn${i}`,
-    notWhole("day", "d", ), notWhole("hour", "h"), notWhole("minute", "m"), notWhole("second", "s")].join(", ");
+/**
+ * The per-fold aggregates of one time column in the pass; `t` is the column's TIMESTAMP alias.
+ * `where` restricts them to some rows of the group (the wide pass: its one totals entry per row).
+ */
+export function timePassAggregates(t: string, i: number, where?: string): string {
+  const only = (cond: string | null) => {
+    const all = [cond, where].filter((x): x is string => x !== null && x !== undefined);
+    return all.length > 0 ? ` FILTER (WHERE ${all.join(" AND ")})` : "";
+  };
+  const notWhole = (unit: string, name: string) => `count(${t})${only(`${t} <> date_trunc('${unit}', ${t})`)}::BIGINT AS __t${name}${i}`;
+  return [`min(${t})${only(null)} AS __tmin${i}`, `max(${t})${only(null)} AS __tmax${i}`, `count(${t})${only(null)}::BIGINT AS __tn${i}`,
+    notWhole("day", "d"), notWhole("hour", "h"), notWhole("minute", "m"), notWhole("second", "s")].join(", ");
 }
 
 /** The same aggregates summed over the per-fold total rows (col = -1) of the level table. */

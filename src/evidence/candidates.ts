@@ -10,12 +10,12 @@ import type { ColumnProfile, TargetKind } from "../profile/types.js";
 import { groupedScoredSql } from "./groupedSql.js";
 import type { Score } from "./scoreSql.js";
 import { scorePredictions } from "./scoreSql.js";
-import type { CandidateName, EvidenceCandidate } from "./types.js";
+import type { EvidenceCandidate, ScoredCandidate } from "./types.js";
 
-/** A scored candidate; AUC or R² only when the score has it. */
-export function toCandidate(candidate: CandidateName, params: Record<string, unknown>, score: Score): EvidenceCandidate {
+/** The scored part of a candidate; AUC or R² only when the score has it. */
+export function scored(score: Score): ScoredCandidate {
   return {
-    candidate, params, loss: score.loss, se: score.se, foldLosses: score.foldLosses,
+    loss: score.loss, se: score.se, foldLosses: score.foldLosses,
     ...(score.auc !== undefined ? { auc: score.auc } : {}), ...(score.r2 !== undefined ? { r2: score.r2 } : {}),
   };
 }
@@ -23,16 +23,21 @@ export function toCandidate(candidate: CandidateName, params: Record<string, unk
 /** Every row gets the other folds' overall mean: what the column adds nothing to. */
 export async function overallMeanCandidate(engine: Engine, col: number, kind: TargetKind): Promise<EvidenceCandidate | null> {
   const score = await scorePredictions(engine, groupedScoredSql(col, "none", 0), kind, "the overall mean");
-  return score && toCandidate("overall-mean", {}, score);
+  return score && { candidate: "overall-mean", params: {}, ...scored(score) };
 }
 
-/** Target-kfold with the column's fitted m (0 when no m was fitted, as the leakage figure uses). */
+/**
+ * Target-kfold with the column's fitted m. No detectable spread (weight null) is scored at its
+ * limit m → ∞: every level predicts the other folds' prior (not m = 0, the raw level means).
+ */
 export async function flatCandidate(engine: Engine, col: number, column: ColumnProfile, kind: TargetKind, policy: AdvicePolicy): Promise<EvidenceCandidate | null> {
-  const weight = column.target?.prior.weight ?? 0;
+  const weight = column.target ? column.target.prior.weight : null;
   const score = await scorePredictions(engine, groupedScoredSql(col, "identity", weight), kind, "flat target encoding");
-  return score && toCandidate("target-kfold", {
-    weight, folds: policy.folds, seed: policy.seed, priorMean: column.target?.prior.mean ?? null, fallback: "prior mean",
-  }, score);
+  return score && {
+    candidate: "target-kfold",
+    params: { weight, folds: policy.folds, seed: policy.seed, priorMean: column.target?.prior.mean ?? null, fallback: "prior mean" },
+    ...scored(score),
+  };
 }
 
 /**
@@ -51,7 +56,9 @@ export async function pooledCandidate(engine: Engine, col: number, column: Colum
   const score = await scorePredictions(engine, groupedScoredSql(col, mapping, 0), kind, "pooled one-hot");
   const nonMissing = column.rows - column.missing;
   const keptRows = kept.reduce((s, k) => s + k.rows, 0);
-  return score && toCandidate("pooled-one-hot", {
-    keep: kept.map((k) => k.level), other: "other", pooledRowShare: nonMissing > 0 ? Math.max(0, 1 - keptRows / nonMissing) : 0, minRows: policy.minLevelRows,
-  }, score);
+  return score && {
+    candidate: "pooled-one-hot",
+    params: { keep: kept.map((k) => k.level), other: "other", pooledRowShare: nonMissing > 0 ? Math.max(0, 1 - keptRows / nonMissing) : 0, minRows: policy.minLevelRows },
+    ...scored(score),
+  };
 }

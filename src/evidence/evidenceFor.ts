@@ -1,8 +1,9 @@
 /**
  * evidence/evidenceFor: the entry point scan calls after the rules have recommended. For each
  * column with a target whose recommendation is target-kfold, frequency or pooled-one-hot (or an
- * identifier-like column with a useful hierarchy), scores every applicable candidate out-of-fold
- * from the level table and applies the one-standard-error rule.
+ * identifier-like column: with a useful hierarchy the hierarchy candidates, else pooled target
+ * encoding), scores every applicable candidate out-of-fold from the level table and applies the
+ * one-standard-error rule, then the practical margin (evidence/margin, policy.minGain).
  */
 import type { AdvicePolicy } from "../advice/policy.js";
 import type { Engine } from "../engine/db.js";
@@ -11,7 +12,9 @@ import type { HierarchyFigures } from "../hierarchy/types.js";
 import type { ColumnProfile, Encoding, ProfileTarget } from "../profile/types.js";
 import { flatCandidate, overallMeanCandidate, pooledCandidate } from "./candidates.js";
 import { backoffCandidate, hierarchicalCandidate } from "./hierarchyCandidates.js";
+import { applyMargin } from "./margin.js";
 import { chooseByOneSeRule } from "./oneSe.js";
+import { pooledTargetCandidate } from "./pooledTarget.js";
 import type { Evidence, EvidenceCandidate } from "./types.js";
 
 /** Rule outcomes that evidence may revise; the others (drop, indicator, one-hot, hashing, codes) stand. */
@@ -20,7 +23,8 @@ export const REVISABLE: readonly Encoding[] = ["target-kfold", "frequency", "poo
 /** Does evidence apply to this column? Never to a user override or a column without target figures. */
 export function evidenceApplies(column: ColumnProfile, hierarchy: HierarchyFigures | undefined): boolean {
   if (!column.target || column.recommendation.overridden) return false;
-  if (column.role === "identifier") return hierarchy?.useful === true;
+  // an identifier-like column is scored too: its repeated levels may carry signal (pooled target encoding)
+  if (column.role === "identifier") return hierarchy?.useful === true || column.recommendation.encoding === "drop";
   return column.role === "categorical" && REVISABLE.includes(column.recommendation.encoding);
 }
 
@@ -42,9 +46,15 @@ export async function evidenceFor(
     const built: (EvidenceCandidate | null)[] = [];
     try {
       built.push(await overallMeanCandidate(engine, col, kind));
-      built.push(await pooledCandidate(engine, col, column, kind, policy));
-      built.push(await flatCandidate(engine, col, column, kind, policy));
-      if (h && !h.counterLike) {
+      const pooledOnly = column.role === "identifier" && !(h?.useful === true && !h.counterLike);
+      if (pooledOnly) {
+        // identifier without a usable hierarchy: the repeated levels against the column unused
+        built.push(await pooledTargetCandidate(engine, col, column, kind, policy));
+      } else {
+        built.push(await pooledCandidate(engine, col, column, kind, policy));
+        built.push(await flatCandidate(engine, col, column, kind, policy));
+      }
+      if (h && !h.counterLike && !pooledOnly) {
         built.push(await backoffCandidate(engine, col, column, h, kind, policy));
         built.push(await hierarchicalCandidate(engine, col, column, h, kind, policy));
       }
@@ -55,7 +65,10 @@ export async function evidenceFor(
       continue;
     }
     const candidates = built.filter((c): c is EvidenceCandidate => c !== null);
-    const choice = chooseByOneSeRule({ candidates, metric });
+    // an identifier with no level reaching minLevelRows has nothing to pool: no comparison to show
+    if (candidates.length < 2 && column.role === "identifier") continue;
+    const oneSe = chooseByOneSeRule({ candidates, metric });
+    const choice = oneSe && applyMargin(oneSe, { candidates, metric }, policy.minGain);
     if (!choice) continue;
     out.set(col, {
       metric, folds: policy.folds, rows: target.rows, candidates,

@@ -36,7 +36,10 @@ export function chooseByOneSeRule(evidence: Pick<Evidence, "candidates" | "metri
   const threshold = best.loss + (best.se ?? 0);
   const candidate = bySimplicity.find((c) => c.loss <= threshold) ?? best;
   const metric = evidence.metric === "log-loss" ? "log loss" : "squared error";
-  const runnerUp = usable.filter((c) => c !== best).sort((a, b) => a.loss - b.loss)[0];
+  // ties (as above) go to the simpler candidate, so two candidates that predict the same values
+  // (e.g. both at m = ∞, the prior) are named in the same order on every run
+  const runnerUp = usable.filter((c) => c !== best)
+    .sort((a, b) => (lower(a, b) ? -1 : lower(b, a) ? 1 : complexity(a.candidate) - complexity(b.candidate)))[0];
   const next = runnerUp
     ? `; the next best, ${label(runnerUp.candidate)} (${fmt(runnerUp.loss, 5)}), ${runnerUp.loss > threshold ? "is more than one standard error worse" : "is within one standard error but not simpler"}`
     : "";

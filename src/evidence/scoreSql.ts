@@ -7,8 +7,10 @@
  * predictions (ties ½, as engine/leakage does), or R² = 1 − SSE/SST.
  */
 import type { Engine } from "../engine/db.js";
-import { mannWhitneyUSql } from "../engine/formulaSql.js";
+import { logLossSql, mannWhitneyUSql } from "../engine/formulaSql.js";
 import type { TargetKind } from "../profile/types.js";
+import { aucFromU } from "../stats/aucFromGroups.js";
+import { rSquaredFromSums } from "../stats/rSquaredFromGroups.js";
 import { foldLoss } from "./foldLoss.js";
 
 const SCORED = "tailsift_evidence_scored";
@@ -19,7 +21,7 @@ export interface Score { loss: number; se: number | null; foldLosses: number[]; 
 export async function scorePredictions(engine: Engine, scoredSql: string, kind: TargetKind, what: string): Promise<Score | null> {
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${SCORED} AS ${scoredSql}`, `predicting out-of-fold (${what})`);
   const loss = kind === "binary"
-    ? "-(s * ln(greatest(1e-15, least(1 - 1e-15, pred))) + (n - s) * ln(1 - greatest(1e-15, least(1 - 1e-15, pred))))"
+    ? logLossSql("s", "(n - s)", "pred")
     : "s2 - 2 * pred * s + n * pred * pred";
   const folds = await engine.rows<{ fold: number; rows: number; loss: number }>(
     `SELECT fold, sum(n)::DOUBLE AS rows, sum(${loss})::DOUBLE AS loss FROM ${SCORED} GROUP BY fold ORDER BY fold`, `scoring ${what}`);
@@ -29,9 +31,9 @@ export async function scorePredictions(engine: Engine, scoredSql: string, kind: 
   if (kind === "continuous") {
     const [t] = await engine.rows<{ sse: number; sst: number }>(
       `SELECT sum(s2 - 2 * pred * s + n * pred * pred)::DOUBLE AS sse, (sum(s2) - sum(s) * sum(s) / sum(n))::DOUBLE AS sst FROM ${SCORED}`, `scoring ${what}`);
-    return { ...summary, rows, r2: t && t.sst > 0 ? 1 - t.sse / t.sst : null };
+    return { ...summary, rows, r2: t ? rSquaredFromSums(t.sse, t.sst) : null };
   }
   const [u] = await engine.rows<{ u: number; positives: number; negatives: number }>(
     mannWhitneyUSql(`SELECT pred AS score, sum(s) AS pos, sum(n - s) AS neg FROM ${SCORED} GROUP BY pred`, []), `scoring ${what}`);
-  return { ...summary, rows, auc: u && u.positives * u.negatives > 0 ? u.u / (u.positives * u.negatives) : null };
+  return { ...summary, rows, auc: u ? aucFromU(u) : null };
 }

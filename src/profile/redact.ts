@@ -12,14 +12,17 @@ export function redactValue(key: string, value: string): string {
   return `#${createHmac("sha256", key).update(value, "utf8").digest("hex").slice(0, 12)}`;
 }
 
-function redactParams(params: Record<string, unknown>, tag: (v: string) => string): Record<string, unknown> {
-  const out: Record<string, unknown> = {};
-  for (const [k, v] of Object.entries(params)) {
-    if ((k === "keep" || k === "levels") && Array.isArray(v)) out[k] = v.map((x) => (typeof x === "string" ? tag(x) : x));
-    else if ((k === "one" || k === "zero") && typeof v === "string") out[k] = tag(v);
-    else out[k] = v;
-  }
-  return out;
+/** The parameters with every level value (kept, one-hot, indicator levels) tagged; the shape is kept. */
+function redactParams<P extends object>(params: P, tag: (v: string) => string): P {
+  const tagged = (v: unknown) => (typeof v === "string" ? tag(v) : v);
+  const entries = Object.entries(params).map(([k, v]) => [k,
+    (k === "keep" || k === "levels") && Array.isArray(v) ? v.map(tagged) : k === "one" || k === "zero" ? tagged(v) : v]);
+  return { ...params, ...Object.fromEntries(entries) };
+}
+
+/** A recommendation or candidate with its parameters' level values tagged. */
+function withRedactedParams<R extends { params: object }>(r: R, tag: (v: string) => string): R {
+  return { ...r, params: redactParams(r.params, tag) };
 }
 
 function redactColumn(c: ColumnProfile, tag: (v: string) => string): ColumnProfile {
@@ -27,7 +30,7 @@ function redactColumn(c: ColumnProfile, tag: (v: string) => string): ColumnProfi
   const out: ColumnProfile = {
     ...c,
     topLevels: c.topLevels.map((l) => ({ ...l, value: t(l.value) })),
-    recommendation: { ...c.recommendation, params: redactParams(c.recommendation.params, tag), reasons: c.recommendation.reasons.map((r) => redactQuoted(r, tag)) },
+    recommendation: { ...withRedactedParams(c.recommendation, tag), reasons: c.recommendation.reasons.map((r) => redactQuoted(r, tag)) },
   };
   if (c.variants) out.variants = { ...c.variants, examples: c.variants.examples.map((g) => g.map(tag)) };
   if (c.placeholders) out.placeholders = { ...c.placeholders, top: c.placeholders.top.map((l) => ({ ...l, value: tag(l.value) })) };
@@ -36,7 +39,7 @@ function redactColumn(c: ColumnProfile, tag: (v: string) => string): ColumnProfi
     out.evidence = {
       ...c.evidence,
       reason: redactQuoted(c.evidence.reason, tag),
-      candidates: c.evidence.candidates.map((x) => ({ ...x, params: redactParams(x.params, tag) })),
+      candidates: c.evidence.candidates.map((x) => withRedactedParams(x, tag)),
     };
   }
   return out;

@@ -9,11 +9,14 @@ import { meanInterval } from "../stats/meanInterval.js";
 import { mEstimate } from "../stats/mEstimate.js";
 import { normalNormalPriorWeight } from "../stats/normalNormalPriorWeight.js";
 import { wilsonInterval } from "../stats/wilsonInterval.js";
+import { aucFromU } from "../stats/aucFromGroups.js";
+import { rSquaredFromSums } from "../stats/rSquaredFromGroups.js";
 import type { IntervalGroup, LevelRow, TargetColumnSums } from "../engine/levels.js";
 import type { LeakageSums } from "../engine/leakage.js";
-import type { ColumnTargetFigures, LevelFigure, TargetKind } from "./types.js";
+import type { ColumnTargetFigures, LevelFigure, PriorWeight, TargetKind } from "./types.js";
 
-export interface FittedPrior { method: string; weight: number | null; mean: number; rho?: number | null; tau2?: number | null }
+/** weight null: no detectable spread, m = ∞ (the prior). */
+export interface FittedPrior { method: string; weight: PriorWeight; mean: number; rho?: number | null; tau2?: number | null }
 
 /** Fits the prior weight m for one column from its level sums. */
 export function fitPrior(kind: TargetKind, sums: TargetColumnSums | undefined, overallMean: number): FittedPrior {
@@ -55,7 +58,8 @@ export function describeLevel(kind: TargetKind, level: LevelFigure, row: LevelRo
     if (interval.low > overallMean) out.flag = "above";
     else if (interval.high < overallMean) out.flag = "below";
   }
-  out.smoothed = mEstimate(row.sum_y, row.n_y, prior.weight ?? 0, prior.mean);
+  // no detectable spread (weight null) is the limit m → ∞: the smoothed value is the prior itself
+  out.smoothed = prior.weight === null ? prior.mean : mEstimate(row.sum_y, row.n_y, prior.weight, prior.mean);
   return out;
 }
 
@@ -72,19 +76,15 @@ export function countFlags(kind: TargetKind, groups: readonly IntervalGroup[], o
   return { flagged, tested };
 }
 
-/** AUC = U / (P·N) (Mann–Whitney; ties ½), or R² = 1 − SSE/SST. Null when undefined. */
+/** AUC = U / (P·N) (stats/aucFromGroups aucFromU), or R² = 1 − SSE/SST (stats/rSquaredFromSums). Null when undefined. */
 export function leakageMetric(kind: TargetKind, sums: LeakageSums | undefined, sst: number): number | null {
   if (!sums) return null;
-  if (kind === "binary") {
-    const pairs = sums.positives * sums.negatives;
-    return pairs > 0 ? sums.u / pairs : null;
-  }
-  return sst > 0 ? 1 - sums.sse / sst : null;
+  return kind === "binary" ? aucFromU(sums) : rSquaredFromSums(sums.sse, sst);
 }
 
 export function targetFigures(
   kind: TargetKind, prior: FittedPrior, flags: { flagged: number; tested: number },
-  inSample: number | null, outOfFold: number | null, weightUsed: number,
+  inSample: number | null, outOfFold: number | null, weightUsed: PriorWeight,
   funnel: ColumnTargetFigures["funnel"],
 ): ColumnTargetFigures {
   return {

@@ -1,30 +1,19 @@
-import type { Evidence } from "../evidence/types.js";
-import type { HierarchyFigures } from "../hierarchy/types.js";
+import type { FoldContract } from "../engine/folds.js";
+import type { TargetKind } from "../engine/target.js";
+import type { Evidence } from "./evidenceTypes.js";
+import type { HierarchyFigures } from "./hierarchyTypes.js";
+import type { PriorWeight, Recommendation } from "./recommendation.js";
+
+export type { TargetKind } from "../engine/target.js";
+export { ENCODINGS, type Encoding, type PriorWeight, type Recommendation } from "./recommendation.js";
+export type { FoldContract } from "../engine/folds.js";
 
 /**
  * The Profile: the JSON contract between commands (profile.json). Keys follow
- * ../shared/DESIGN.md; more may be added, none removed. Shares are fractions in [0, 1].
+ * the design in DEVELOPERS.md ("The profile contract"); more may be added, none removed. Shares are fractions in [0, 1].
  */
 
-export type TargetKind = "binary" | "continuous";
-
 export type ColumnRole = "categorical" | "identifier" | "constant" | "numeric" | "time" | "target" | "excluded";
-
-export type Encoding =
-  | "drop"
-  | "indicator"
-  | "one-hot"
-  | "pooled-one-hot"
-  | "target-kfold"
-  | "hashing"
-  | "frequency"
-  | "codes"
-  /** Numeric and target columns: passed through unchanged by encode (not a categorical encoding). */
-  | "keep";
-
-export const ENCODINGS: readonly Encoding[] = [
-  "drop", "indicator", "one-hot", "pooled-one-hot", "target-kfold", "hashing", "frequency", "codes", "keep",
-];
 
 export interface Profile {
   tool: { name: "tailsift"; version: string; engine?: string };
@@ -61,11 +50,17 @@ export interface ProfileSettings {
   folds: number;
   seed: number;
   top: number;
+  /** How rows were assigned to folds (engine/folds); absent in profiles written before it. */
+  fold?: FoldContract;
+  /** Profiles written before settings.fold: the fold hash and the columns it read. */
   foldHash?: string;
+  foldColumns?: string[];
   maxOneHot?: number;
   minLevelRows?: number;
   coverage?: number;
   collisionBudget?: number;
+  /** --missing-like: values read as missing in every column (engine/missingLike), normalised. */
+  missingLike?: string[];
   [k: string]: unknown;
 }
 
@@ -81,14 +76,15 @@ export interface LevelFigure {
 }
 
 export interface ColumnTargetFigures {
-  prior: { method: string; weight: number | null; mean: number; rho?: number | null; tau2?: number | null };
+  /** weight null: no detectable spread (m = ∞, the prior), never 0. */
+  prior: { method: string; weight: PriorWeight; mean: number; rho?: number | null; tau2?: number | null };
   /** Levels whose 95 % interval excludes the overall mean. */
   flaggedLevels: number;
   /** Flags expected by chance alone at that number of levels (5 % of levels with an interval). */
   expectedFalseFlags: number;
   /** Levels with an interval (n >= 1 binary, n >= 2 continuous). */
   testedLevels?: number;
-  leakage: { inSample: number | null; outOfFold: number | null; metric: "auc" | "r2"; weightUsed?: number };
+  leakage: { inSample: number | null; outOfFold: number | null; metric: "auc" | "r2"; weightUsed?: PriorWeight };
   /** Funnel-plot points: rate against rows for up to a bounded number of levels (report only). */
   funnel?: { value: string | null; rows: number; rate: number }[];
 }
@@ -128,6 +124,8 @@ export interface ColumnProfile {
   /** Levels spelled like a missing value ("unknown", "N/A", "[no title]"…), counted beside `missing`. */
   placeholders?: PlaceholderFigures;
   recommendation: Recommendation;
+  /** With --fold-by: the share of rows whose level stays within one entity of the key (engine/keyNesting). */
+  keyNesting?: { keyColumns: string[]; share: number };
 }
 
 export interface NumericValues {
@@ -161,12 +159,4 @@ export interface PlaceholderFigures {
   levels: number;
   /** The largest such levels with the list entry each matched. */
   top: { value: string; rows: number; entry: string }[];
-}
-
-export interface Recommendation {
-  encoding: Encoding;
-  params: Record<string, unknown>;
-  reasons: string[];
-  cautions?: string[];
-  overridden?: { from: Encoding; by: string };
 }

@@ -6,6 +6,7 @@
  */
 import type { CandidateName, Evidence } from "../evidence/types.js";
 import type { ColumnProfile } from "../profile/types.js";
+import { funnelHalfWidth as statsFunnelHalfWidth, funnelLimits } from "../stats/funnelLimits.js";
 
 /** z for a two-sided 95 % limit (normal quantile 0.975). */
 export const Z_95 = 1.959964;
@@ -75,15 +76,13 @@ function coverageFromEntries(column: ColumnProfile): CoveragePoint[] {
 }
 
 /**
- * Half-width of a funnel-plot control limit at n rows around the overall rate p0 (Spiegelhalter
- * 2005, "Funnel plots for comparing institutional performance", Stat. Med. 24:1185–1202, normal
- * approximation): z·√(p0(1−p0)/n) for a proportion, or z·sd/√n for a mean when `sd` is given.
- * n < 1 → null (no limit at zero rows).
+ * Half-width of a funnel-plot control limit at n rows around the overall rate p0 — the formula is
+ * stats/funnelLimits (Spiegelhalter 2005); this only adds the chart's policy: n < 1 → null (no
+ * limit at zero rows).
  */
 export function funnelHalfWidth(p0: number, n: number, z: number, sd?: number): number | null {
   if (!(n >= 1)) return null;
-  const spread = sd === undefined ? Math.sqrt(p0 * (1 - p0)) : sd;
-  return (z * spread) / Math.sqrt(n);
+  return statsFunnelHalfWidth(p0, n, z, sd);
 }
 
 /** One point of a funnel limit: the lower and upper limit at n rows. */
@@ -94,18 +93,12 @@ export interface FunnelLimitPoint {
 }
 
 /**
- * Funnel-plot control limits p0 ± z·√(p0(1−p0)/n) (or p0 ± z·sd/√n with `sd`) at about 80
- * row counts from nMin to nMax on a log grid, ends included. Proportions are clipped to [0, 1].
- * nMax < nMin or nMax < 1 → empty list.
+ * Funnel-plot control limits (stats/funnelLimits: p0 ± z·√(p0(1−p0)/n), or p0 ± z·sd/√n with
+ * `sd`; proportions clamped to [0, 1]) at about 80 row counts from nMin to nMax on a log grid,
+ * ends included. nMax < nMin or nMax < 1 → empty list.
  */
 export function funnelLimitPoints(p0: number, nMin: number, nMax: number, z: number, sd?: number): FunnelLimitPoint[] {
-  const clip = (x: number): number => (sd === undefined ? Math.min(1, Math.max(0, x)) : x);
-  const points: FunnelLimitPoint[] = [];
-  for (const n of logGrid(Math.max(1, nMin), nMax, 80)) {
-    const half = funnelHalfWidth(p0, n, z, sd);
-    if (half !== null) points.push({ n, low: clip(p0 - half), high: clip(p0 + half) });
-  }
-  return points;
+  return logGrid(Math.max(1, nMin), nMax, 80).map((n) => ({ n, ...funnelLimits(p0, n, z, sd) }));
 }
 
 /** A candidate on the evidence chart: its out-of-fold loss and the ±1 SE interval (null without an SE). */

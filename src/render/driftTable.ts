@@ -5,7 +5,7 @@
  * characters are made visible in the terminal, Markdown syntax is escaped in the record.
  */
 import Table from "cli-table3";
-import type { ColumnDrift, DriftReport } from "../drift/types.js";
+import type { ColumnDrift, DriftReport } from "../profile/driftTypes.js";
 import { escapeMarkdownCell, escapeMarkdownText, showControlCharacters } from "./escape.js";
 import { formatCompact, formatCount, formatNumber, formatShare } from "./format.js";
 

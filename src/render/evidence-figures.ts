@@ -6,10 +6,10 @@
  * data and are escaped like every other level value.
  */
 import { label } from "../evidence/oneSe.js";
-import type { CandidateName, Evidence, EvidenceCandidate } from "../evidence/types.js";
+import type { CandidateName, Evidence, EvidenceCandidate } from "../profile/evidenceTypes.js";
 import { describeParent } from "../hierarchy/parent.js";
-import type { HierarchyFigures, ParentSpec } from "../hierarchy/types.js";
-import type { ColumnProfile, Recommendation } from "../profile/types.js";
+import type { HierarchyFigures, ParentSpec } from "../profile/hierarchyTypes.js";
+import type { ColumnProfile, PriorWeight, Recommendation } from "../profile/types.js";
 import { levelText, type Figure } from "./figures.js";
 import { formatCompact, formatCount, formatNumber, formatShare } from "./format.js";
 
@@ -58,32 +58,40 @@ export function parentChainText(specs: readonly ParentSpec[]): string {
   return specs.map(plain).join(" → ");
 }
 
-const weightText = (w: unknown): string => (finite(w) ? formatCompact(w) : "∞");
+/** A weight: a number, else (null: no detectable spread; or absent from an edited profile) m = ∞. */
+const weightText = (w: PriorWeight | undefined): string => (finite(w) ? formatCompact(w) : "∞");
+/** A count that an edited profile may lack: "n/a" then. */
+const countText = (n: number | null | undefined): string => formatCount(finite(n) ? n : null);
 
 /**
  * The key parameters of a candidate, short: what it fitted, without repeating the folds. A pooled
- * candidate shows its first three kept levels (data: the renderers escape them). A missing weight
- * means no detectable spread, shown as m = ∞; other missing figures print "n/a".
+ * candidate shows its first three kept levels (data: the renderers escape them). A null weight
+ * means no detectable spread, shown as m = ∞; other missing figures print "n/a" (a saved profile
+ * may have been edited, so every figure is read defensively).
  */
 export function candidateParamsText(c: EvidenceCandidate): string {
-  const p = c.params;
   switch (c.candidate) {
     case "pooled-one-hot": {
-      const keep = Array.isArray(p.keep) ? p.keep : [];
+      const keep: readonly unknown[] = Array.isArray(c.params.keep) ? c.params.keep : [];
       const shown = keep.slice(0, KEPT_SHOWN).map(shortLevel).join(", ") + (keep.length > KEPT_SHOWN ? ", …" : "");
-      return `keep ${formatCount(keep.length)} (${shown}) + other; ${formatShare(finite(p.pooledRowShare) ? p.pooledRowShare : null)} of rows pooled`;
+      return `keep ${formatCount(keep.length)} (${shown}) + other; ${formatShare(finite(c.params.pooledRowShare) ? c.params.pooledRowShare : null)} of rows pooled`;
     }
-    case "target-kfold": return `m = ${weightText(p.weight)}`;
+    case "target-kfold": return `m = ${weightText(c.params.weight)}`;
     case "backoff-target-kfold": {
-      const parents = Array.isArray(p.parents) ? (p.parents as ParentSpec[]) : [];
-      return `parents ${parentChainText(parents)}; ≥ ${formatCount(finite(p.minRows) ? p.minRows : null)} rows; `
-        + `${formatCount(finite(p.groups) ? p.groups : null)} groups; m = ${weightText(p.weight)}`;
+      const p = c.params;
+      // no parents: the pooled target encoding of an identifier-like column
+      if (Array.isArray(p.parents) && p.parents.length === 0) {
+        return `pooled: levels with < ${countText(p.minRows)} rows share "other"; ${countText(p.groups)} levels kept; m = ${weightText(p.weight)}`;
+      }
+      return `parents ${parentChainText(Array.isArray(p.parents) ? p.parents : [])}; ≥ ${countText(p.minRows)} rows; `
+        + `${countText(p.groups)} groups; m = ${weightText(p.weight)}`;
     }
     case "hierarchical-target-kfold": {
-      const parent = p.parent && typeof p.parent === "object" ? parentChainText([p.parent as ParentSpec]) : "—";
-      return `parent ${parent}, ${formatCount(finite(p.parentGroups) ? p.parentGroups : null)} groups; m = ${weightText(p.weight)}, parent m = ${weightText(p.parentWeight)}`;
+      const p = c.params;
+      const parent = typeof p.parent === "object" && p.parent !== null ? parentChainText([p.parent]) : "—";
+      return `parent ${parent}, ${countText(p.parentGroups)} groups; m = ${weightText(p.weight)}, parent m = ${weightText(p.parentWeight)}`;
     }
-    default: return "—";
+    case "overall-mean": return "—";
   }
 }
 

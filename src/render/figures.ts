@@ -3,6 +3,7 @@
  * figures of a column, the wording of a decision and its parameters, the settings, and the
  * standing cautions. Each renderer escapes these strings for its own format.
  */
+import { foldKindText } from "../engine/folds.js";
 import type { ColumnProfile, Profile, Recommendation } from "../profile/types.js";
 import { formatCompact, formatCount, formatNumber, formatShare } from "./format.js";
 import { numericValuesText, passThroughFigures, placeholderFigure, roleNotes } from "./passThroughFigures.js";
@@ -45,7 +46,7 @@ export function paramValueText(value: unknown): string {
 }
 
 /** Parameters as `name=value` pairs in the order the recommendation lists them. */
-export function paramsText(params: Record<string, unknown>): string {
+export function paramsText(params: object): string {
   const entries = Object.entries(params);
   return entries.length === 0 ? "—" : entries.map(([k, v]) => `${k}=${paramValueText(v)}`).join(", ");
 }
@@ -152,6 +153,7 @@ export function inputNotes(profile: Profile): string[] {
   const notes: string[] = [];
   if (profile.input.redacted) notes.push("Level values are redacted in this profile: the labels shown are stand-ins, not the values in the data.");
   if (profile.input.fromLevels) notes.push("Profiled from a level table (tailsift sql, then scan --levels), not from the raw rows.");
+  if (profile.settings.fold?.kind === "grouped") notes.push(`Folds: ${foldKindText(profile.settings.fold)}.`);
   notes.push(...roleNotes(profile));
   return notes;
 }

@@ -4,7 +4,9 @@
  */
 import type { ColumnProfile } from "../profile/types.js";
 import { formatCount, formatShare } from "./format.js";
-import type { Figure } from "./figures.js";
+
+/** A labelled figure, as render/figures' Figure (declared here so the two modules do not import each other). */
+interface Figure { label: string; value: string }
 
 /** "5 (exact)" or "≥ 4,213 (first 50,000 rows)". */
 export function numericValuesText(column: ColumnProfile): string | null {

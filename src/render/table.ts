@@ -8,16 +8,18 @@ import { formatCount, formatNumber, formatShare } from "./format.js";
 import { numericValuesText, placeholderShareText, timeRangeText } from "./passThroughFigures.js";
 
 function keyParams(c: ColumnProfile): string {
-  const p = c.recommendation.params;
-  switch (c.recommendation.encoding) {
-    case "one-hot": return `${(p.levels as unknown[] | undefined)?.length ?? 0} cols`;
-    case "pooled-one-hot": return `${(p.keep as unknown[] | undefined)?.length ?? 0}+other, pooled ${formatShare(p.pooledRowShare as number)}`;
+  const rec = c.recommendation;
+  switch (rec.encoding) {
+    // a saved profile may have been edited: lists are read defensively
+    case "one-hot": return `${Array.isArray(rec.params.levels) ? rec.params.levels.length : 0} cols`;
+    case "pooled-one-hot": return `${Array.isArray(rec.params.keep) ? rec.params.keep.length : 0}+other, pooled ${formatShare(rec.params.pooledRowShare)}`;
     case "target-kfold": {
-      const how = p.grouping === "backoff" ? `backoff ${formatCount(p.groups as number)} groups, ` : p.prior === "hierarchical" ? "hierarchical, " : "";
-      return `${how}m=${p.weight === null ? "∞" : formatNumber(p.weight as number, 1)}, K=${String(p.folds ?? "")}`;
+      const p = rec.params;
+      const how = p.grouping === "backoff" ? `backoff ${formatCount(p.groups)} groups, ` : p.prior === "hierarchical" ? "hierarchical, " : "";
+      return `${how}m=${p.weight === null ? "∞" : formatNumber(p.weight, 1)}, K=${String(p.folds ?? "")}`;
     }
-    case "hashing": return `${p.grouping === "backoff" ? "backoff groups, " : ""}w=${formatCount(p.width as number)}, coll ${formatShare(p.collisionRowShare as number, 2)}`;
-    case "frequency": return `${formatCount(p.tableSize as number)} levels`;
+    case "hashing": return `${rec.params.grouping === "backoff" ? "backoff groups, " : ""}w=${formatCount(rec.params.width)}, coll ${formatShare(rec.params.collisionRowShare, 2)}`;
+    case "frequency": return `${formatCount(rec.params.tableSize)} levels`;
     default: return timeRangeText(c) ?? "";
   }
 }
@@ -31,7 +33,9 @@ function rateRange(c: ColumnProfile): string {
 /** The per-column table printed by `scan`. */
 export function renderTable(profile: Profile): string {
   const withTarget = profile.target !== undefined;
-  const head = ["column", "role", "distinct", "missing", "missing-like", "top-1", "95% levels", "unseen", ...(withTarget ? ["top rates", "m", "AUC in/oof"] : []), "advice", "params"];
+  // the missing-like column (rows of placeholder levels) appears only when some column has them
+  const placeholders = profile.columns.some((c) => c.placeholders !== undefined);
+  const head = ["column", "role", "distinct", "missing", ...(placeholders ? ["missing-like"] : []), "top-1", "95% levels", "unseen", ...(withTarget ? ["top rates", "m", "AUC in/oof"] : []), "advice", "params"];
   if (withTarget && profile.target?.kind === "continuous") head[head.indexOf("AUC in/oof")] = "R² in/oof";
   const table = new Table({ head, style: { head: [], border: [], compact: true } });
   for (const c of profile.columns) {
@@ -40,7 +44,7 @@ export function renderTable(profile: Profile): string {
       c.name, c.role,
       measured ? formatCount(c.distinct) : (numericValuesText(c)?.replace(/ \(.*\)$/, "") ?? ""),
       formatShare(c.rows > 0 ? c.missing / c.rows : 0),
-      placeholderShareText(c),
+      ...(placeholders ? [placeholderShareText(c)] : []),
       measured ? formatShare(c.topLevels[0]?.share ?? 0) : "",
       measured ? formatCount(c.coverage.find((x) => x.share === 0.95)?.levels ?? 0) : "",
       measured ? formatShare(c.unseenRate, 2) : "",
@@ -56,6 +60,7 @@ export function renderTable(profile: Profile): string {
   const t = profile.target;
   const header = `${formatCount(profile.input.rows)} rows, ${profile.columns.length} columns` +
     (t ? `; target '${t.column}' (${t.kind}, mean ${formatNumber(t.mean, 4)}, ${formatCount(t.missing)} missing)` : "") +
-    `; ${profile.settings.folds} folds, seed ${profile.settings.seed}`;
+    `; ${profile.settings.folds} folds, seed ${profile.settings.seed}` +
+    (profile.settings.fold?.kind === "grouped" ? ` (grouped by ${profile.settings.fold.keyColumns.join(", ")})` : "");
   return `${header}\n${table.toString()}\n`;
 }

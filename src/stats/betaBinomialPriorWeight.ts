@@ -1,4 +1,16 @@
-import type { BetaBinomialSums } from "./betaBinomialSums.js";
+/** Sufficient sums for {@link betaBinomialPriorWeight}, as SQL computes them over a level table. */
+export interface BetaBinomialSums {
+  /** k, the number of levels (with at least one row). */
+  levels: number;
+  /** N = Σnᵢ. */
+  rows: number;
+  /** Σyᵢ, the positive rows. */
+  positives: number;
+  /** Σyᵢ²/nᵢ. */
+  sumPositivesSqOverRows: number;
+  /** Σnᵢ². */
+  sumRowsSq: number;
+}
 
 /**
  * Prior weight m for smoothing level rates of a binary target, from the beta-binomial moment

@@ -100,7 +100,7 @@ describe("advice without a target: hashing width from exact collisions", () => {
     const p = await scan([csv], { columns: ["k"] });
     const cand = p.columns[0]!.hashing?.candidates.find((x) => x.width === width);
     expect(cand?.collidingLevels).toBe(colliding);
-    // Expected buckets used by n = w = 1024 uniform levels: 647.475 (CHECKS.md, recomputed); the
+    // Expected buckets used by n = w = 1024 uniform levels: 647.475 (docs/references.md "Hashing collisions", recomputed); the
     // real hash should land near it (binomial-ish spread, a few standard deviations ≈ ±40).
     expect(expectedBucketsUsed(1024, 1024)).toBeCloseTo(647.475, 3);
     expect(Math.abs(perBucket.size - 647.475)).toBeLessThan(40);

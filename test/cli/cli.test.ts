@@ -7,8 +7,9 @@ import fs from "node:fs";
 import path from "node:path";
 import { promisify } from "node:util";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { runCli } from "../../src/cli.js";
+import { buildProgram, runCli } from "../../src/cli.js";
 import { validateProfile } from "../../src/profile/schema.js";
+import { expectCliError } from "../helpers/cliError.js";
 import { collector, tempDir, writeFile } from "../helpers/tmp.js";
 
 const run = promisify(execFile);
@@ -21,7 +22,15 @@ describe("tailsift in-process", () => {
   it("prints help with every command and exits 0", async () => {
     const c = collector();
     expect(await runCli(["--help"], c.io)).toBe(0);
-    for (const cmd of ["scan", "report"]) expect(c.out).toContain(cmd);
+    // every command the program registers is listed on its own line with the start of its description
+    const commands = buildProgram(collector().io).commands;
+    expect(commands.map((cmd) => cmd.name()).sort()).toEqual(["drift", "encode", "report", "scan", "sql"]);
+    const lines = c.out.split("\n");
+    for (const cmd of commands) {
+      const line = lines.find((l) => l.startsWith(`  ${cmd.name()} `));
+      expect(line, cmd.name()).toBeDefined();
+      expect(line).toContain(cmd.description().split(" ").slice(0, 3).join(" "));
+    }
   });
 
   it("scan --format json prints a profile that validates against the published schema", async () => {
@@ -61,21 +70,29 @@ describe("tailsift in-process", () => {
   });
 
   it.each([
-    ["file not found", ["scan", path.join(dir, "nope.csv")], /input '.*nope\.csv' not found/],
-    ["unsupported format", ["scan", writeFile(dir, "x.xlsx", "abc")], /cannot read '.*x\.xlsx': use \.csv/],
-    ["empty file", ["scan", writeFile(dir, "empty.csv", "")], /is empty/],
-    ["header only", ["scan", writeFile(dir, "header.csv", "a,b,c\n")], /header but no rows/],
-    ["unknown column in --columns", ["scan", small, "--columns", "colour,nope"], /--columns: column 'nope' not found; columns are: id, colour, size, y/],
-    ["bad --folds", ["scan", small, "--folds", "1"], /--folds must be an integer from 2 to 100/],
-    ["bad --decide", ["scan", small, "--decide", "colour=magic"], /--decide 'colour=magic'/],
-    ["unknown option", ["scan", small, "--frobnicate"], /unknown option/],
-    ["glob with no match", ["scan", path.join(dir, "none-*.csv")], /no file matches/],
-    ["output equal to an input", ["report", small, "--out", small], /not JSON|is also an input/],
-  ])("%s: exit 2 with one line, no stack trace", async (_name, argv, message) => {
-    const c = collector();
-    expect(await runCli(argv, c.io)).toBe(2);
-    expect(c.err).toMatch(message);
-    expect(c.err).not.toMatch(/\n\s+at /);
+    ["file not found", ["scan", path.join(dir, "nope.csv")], "input_not_found", /input '.*nope\.csv' not found/],
+    ["unsupported format", ["scan", writeFile(dir, "x.xlsx", "abc")], "unsupported_format", /cannot read '.*x\.xlsx': use \.csv/],
+    ["empty file", ["scan", writeFile(dir, "empty.csv", "")], "empty_input", /is empty/],
+    ["header only", ["scan", writeFile(dir, "header.csv", "a,b,c\n")], "empty_input", /header but no rows/],
+    ["unknown column in --columns", ["scan", small, "--columns", "colour,nope"], "unknown_column", /--columns: column 'nope' not found; columns are: id, colour, size, y/],
+    ["bad --folds", ["scan", small, "--folds", "1"], "bad_option", /--folds must be an integer from 2 to 100/],
+    ["bad --decide", ["scan", small, "--decide", "colour=magic"], "bad_option", /--decide 'colour=magic'/],
+    ["unknown option", ["scan", small, "--frobnicate"], "commander.unknownOption", /unknown option/],
+    ["glob with no match", ["scan", path.join(dir, "none-*.csv")], "input_not_found", /no file matches/],
+  ])("%s: exit 2, error code and one line, no stack trace", async (_name, argv, code, message) => {
+    await expectCliError(argv, code, message);
+  });
+
+  it("output equal to an input: refused before the input is read, and the input is unchanged", async () => {
+    // A valid profile as the input, so the refusal cannot come from "not JSON" (or any other
+    // problem with the input): report must refuse --out naming its own input.
+    const out = path.join(dir, "plan");
+    expect(await runCli(["scan", small, "--target", "y", "--out", out, "--quiet"], collector().io)).toBe(0);
+    const profile = path.join(out, "profile.json");
+    const before = fs.readFileSync(profile);
+    await expectCliError(["report", profile, "--out", profile], "output_is_input", /'.*profile\.json' is also an input; inputs are never modified/);
+    expect(fs.readFileSync(profile).equals(before)).toBe(true);
+    expect(fs.readdirSync(out).filter((f) => f.endsWith(".tmp"))).toEqual([]);
   });
 });
 
@@ -90,7 +107,7 @@ describe("tailsift binary end to end", () => {
     expect(JSON.parse(ok.stdout).input.rows).toBe(6);
     const bad = await run("node", [bin, "scan", path.join(dir, "missing.csv")]).catch((e: { code: number; stderr: string }) => e);
     expect((bad as { code: number }).code).toBe(2);
-    expect((bad as { stderr: string }).stderr.trim().split("\n")).toHaveLength(1);
+    expect((bad as { stderr: string }).stderr.trim().split("\n")).toEqual([expect.stringMatching(/^tailsift: input '.*missing\.csv' not found/)]);
   });
 
   it("prints its version", async () => {

@@ -6,6 +6,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { DriftReport } from "../../src/commands/drift.js";
+import { expectCliError } from "../helpers/cliError.js";
 import { tempDir } from "../helpers/tmp.js";
 import { cli, makePlan } from "./helpers.js";
 
@@ -97,29 +98,18 @@ describe("drift edge cases", () => {
 });
 
 describe("drift on bad input exits 2 with one line", () => {
-  const oneLine = (err: string) => {
-    expect(err.endsWith("\n")).toBe(true);
-    expect(err.trim().split("\n")).toHaveLength(1);
-    expect(err.startsWith("tailsift: ")).toBe(true);
-  };
   const data = () => path.join(dir, "plan.csv");
 
   it("missing plan", async () => {
-    const run = await cli(["drift", data(), "--plan", path.join(dir, "nope", "profile.json")]);
-    expect(run.code).toBe(2);
-    oneLine(run.err);
-    expect(run.err).toContain("not found");
-    expect(run.out).toBe("");
+    const run = await expectCliError(["drift", data(), "--plan", path.join(dir, "nope", "profile.json")], "plan_not_found", /not found/);
+    expect(run.stdout).toBe("");
   });
 
   it("plan folder without levels.parquet", async () => {
     const bare = path.join(dir, "bare");
     fs.mkdirSync(bare, { recursive: true });
     fs.copyFileSync(plan, path.join(bare, "profile.json"));
-    const run = await cli(["drift", data(), "--plan", path.join(bare, "profile.json")]);
-    expect(run.code).toBe(2);
-    oneLine(run.err);
-    expect(run.err).toContain("no levels.parquet");
+    await expectCliError(["drift", data(), "--plan", path.join(bare, "profile.json")], "plan_without_levels", /no levels\.parquet/);
   });
 
   it("a levels.parquet that is not Parquet", async () => {
@@ -127,32 +117,20 @@ describe("drift on bad input exits 2 with one line", () => {
     fs.mkdirSync(broken, { recursive: true });
     fs.copyFileSync(plan, path.join(broken, "profile.json"));
     fs.writeFileSync(path.join(broken, "levels.parquet"), "not parquet");
-    const run = await cli(["drift", data(), "--plan", broken, "--threads", "1"]);
-    expect(run.code).toBe(2);
-    oneLine(run.err);
-    expect(run.err).toContain("level table");
+    await expectCliError(["drift", data(), "--plan", broken, "--threads", "1"], "engine", /level table/);
   });
 
   it("missing input", async () => {
-    const run = await cli(["drift", path.join(dir, "absent.csv"), "--plan", plan, "--threads", "1"]);
-    expect(run.code).toBe(2);
-    oneLine(run.err);
-    expect(run.err).toContain("absent.csv");
+    await expectCliError(["drift", path.join(dir, "absent.csv"), "--plan", plan, "--threads", "1"], "input_not_found", /absent\.csv/);
   });
 
   it("input with a header and no rows", async () => {
     const empty = path.join(dir, "empty.csv");
     fs.writeFileSync(empty, "id,region,channel,y\n");
-    const run = await cli(["drift", empty, "--plan", plan, "--threads", "1"]);
-    expect(run.code).toBe(2);
-    oneLine(run.err);
-    expect(run.err).toContain("no rows");
+    await expectCliError(["drift", empty, "--plan", plan, "--threads", "1"], "empty_input", /no rows/);
   });
 
   it("an act band below the watch band", async () => {
-    const run = await cli(["drift", data(), "--plan", plan, "--psi-watch", "0.3", "--psi-act", "0.2"]);
-    expect(run.code).toBe(2);
-    oneLine(run.err);
-    expect(run.err).toContain("--psi-act");
+    await expectCliError(["drift", data(), "--plan", plan, "--psi-watch", "0.3", "--psi-act", "0.2"], "bad_option", /--psi-act/);
   });
 });

@@ -1,8 +1,6 @@
 /**
- * Helpers for the drift tests: a CLI runner (runCli once the lead registers `drift` in cli.ts;
- * until then the command is added here and errors are mapped the way runCli maps them), plan
- * making through the library scan, the sample-data generator, and plain CSV reading for
- * independent recomputations.
+ * Helpers for the drift tests: an in-process CLI runner (runCli), plan making through the
+ * library scan, the sample-data generator, and plain CSV reading for independent recomputations.
  */
 import { execFileSync } from "node:child_process";
 import fs from "node:fs";

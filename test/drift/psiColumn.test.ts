@@ -1,7 +1,7 @@
 /**
  * PSI through drift's column path: hand-made plan and extract files whose shares are known, so
  * the value drift reports (level tables → bins → populationStabilityIndex) can be checked against
- * the reference values in CHECKS.md and against a plain recomputation.
+ * the reference values in docs/references.md ("Population stability index") and against a plain recomputation.
  */
 import fs from "node:fs";
 import path from "node:path";
@@ -47,7 +47,7 @@ beforeAll(async () => {
 
 describe("drift PSI over level shares", () => {
   it("shares (.5,.5) in the plan and (.9,.1) now give 0.8788898", () => {
-    // CHECKS.md, population stability index: a = (.5,.5), e = (.9,.1) → 0.8788898 (recomputed;
+    // docs/references.md "Population stability index": a = (.5,.5), e = (.9,.1) → 0.8788898 (recomputed;
     // PSI is symmetric in a and e).
     expect(col(wide, "channel").psi).toBeCloseTo(0.8788898, 7);
     expect(col(wide, "channel").psiBins).toBe(2);
@@ -55,7 +55,7 @@ describe("drift PSI over level shares", () => {
   });
 
   it("a uniform plan and (.1,.2,.3,.4) now give 0.2282174", () => {
-    // CHECKS.md: a = (.1,.2,.3,.4), e = uniform → 0.2282174 (recomputed).
+    // docs/references.md "Population stability index": a = (.1,.2,.3,.4), e = uniform → 0.2282174 (recomputed).
     expect(col(wide, "mix").psi).toBeCloseTo(0.2282174, 7);
     expect(col(wide, "mix").status).toBe("watch");
   });

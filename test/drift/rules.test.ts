@@ -14,7 +14,7 @@ const noRest = { planRest: 0, newRest: 0, planMissing: 0, newMissing: 0 };
 
 describe("psiCheck", () => {
   it("(.5,.5) expected vs (.9,.1) actual gives 0.8788898: act", () => {
-    // CHECKS.md, population stability index: a = (.5,.5), e = (.9,.1) → 0.8788898 (recomputed);
+    // docs/references.md "Population stability index": a = (.5,.5), e = (.9,.1) → 0.8788898 (recomputed);
     // PSI is symmetric, so swapping actual and expected gives the same value.
     const r = psiCheck({ planTop: [50, 50], newTop: [90, 10], ...noRest }, T);
     expect(r.psi).toBeCloseTo(0.8788898, 7);
@@ -23,7 +23,7 @@ describe("psiCheck", () => {
   });
 
   it("(.1,.2,.3,.4) vs uniform gives 0.2282174: watch (between 0.10 and 0.25)", () => {
-    // CHECKS.md: a = (.1,.2,.3,.4), e = uniform → 0.2282174 (recomputed).
+    // docs/references.md "Population stability index": a = (.1,.2,.3,.4), e = uniform → 0.2282174 (recomputed).
     const r = psiCheck({ planTop: [25, 25, 25, 25], newTop: [10, 20, 30, 40], ...noRest }, T);
     expect(r.psi).toBeCloseTo(0.2282174, 7);
     expect(r.verdict.status).toBe("watch");

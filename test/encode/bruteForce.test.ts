@@ -9,7 +9,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { encode } from "../../src/commands/encode.js";
-import { foldSql } from "../../src/engine/aggregate.js";
+import { rowHashFoldSql as foldSql } from "../../src/engine/folds.js";
 import { withEngine } from "../../src/engine/db.js";
 import { openSource } from "../../src/engine/source.js";
 import type { EncodeSummary } from "../../src/encode/types.js";
@@ -69,7 +69,7 @@ async function scanFolds(file: string): Promise<Map<string, number>> {
     await openSource(engine, [file]);
     const s = profile.settings;
     const rows = await engine.rows<{ id: string; fold: number }>(
-      `SELECT id, ${foldSql(s.foldColumns as string[], s.seed, s.folds)} AS fold FROM tailsift_src`, "folds");
+      `SELECT id, ${foldSql(s.fold!.keyColumns, s.seed, s.folds)} AS fold FROM tailsift_src`, "folds");
     return new Map(rows.map((r) => [r.id, r.fold]));
   });
 }

@@ -5,8 +5,9 @@
 import fs from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { collector, tempDir, writeFile } from "../helpers/tmp.js";
-import { ok, runEncodeCli, scanPlan, smallData } from "./helpers.js";
+import { expectCliError } from "../helpers/cliError.js";
+import { tempDir, writeFile } from "../helpers/tmp.js";
+import { ok, scanPlan, smallData } from "./helpers.js";
 
 const dir = tempDir("encode-err");
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
@@ -26,32 +27,26 @@ beforeAll(async () => {
 
 describe("encode: bad input exits 2 with one line", () => {
   it.each([
-    ["plan not found", [trainFile, "--plan", path.join(dir, "nope", "profile.json"), "--for", "training"], /plan '.*nope.*' not found/],
-    ["plan is not a profile", [trainFile, "--plan", writeFile(dir, "x.json", '{"a":1}'), "--for", "training"], /is not a tailsift profile/],
-    ["plan without levels.parquet", [trainFile, "--plan", bareDir, "--for", "scoring"], /no levels\.parquet beside profile\.json/],
-    ["plan from another file", [other, "--plan", planDir, "--for", "scoring"], /the input lacks the plan's columns 'shop', 'colour'.*rescan/],
-    ["training without the target column", [noTarget, "--plan", planDir, "--for", "training"], /--for training needs the plan's target column 'y'/],
-    ["leave-one-out when scoring", [trainFile, "--plan", planDir, "--for", "scoring", "--leave-one-out"], /--leave-one-out applies to --for training only/],
-    ["unknown --keep column", [trainFile, "--plan", planDir, "--for", "scoring", "--keep", "nope"], /--keep: column 'nope' not in the input/],
-    ["fold column clash", [withFold, "--plan", planDir, "--for", "training", "--keep", "fold"], /two columns named 'fold'; choose another name with --fold-column/],
-    ["no --for", [trainFile, "--plan", planDir], /required option '--for <use>'/],
-    ["bad --for", [trainFile, "--plan", planDir, "--for", "testing"], /--for.*training, scoring/],
-  ])("%s", async (_name, args, message) => {
-    const c = collector();
-    const isCommander = args.includes("testing") || !args.includes("--for");
-    const argv = ["encode", ...args, "--out", args.includes("--out") ? "" : out];
-    expect(await runEncodeCli(argv, c.io)).toBe(2);
-    expect(c.err).toMatch(message);
-    if (!isCommander) expect(c.err.trim().split("\n")).toHaveLength(1);
-    expect(c.err).not.toMatch(/\n\s+at /);
+    ["plan not found", [trainFile, "--plan", path.join(dir, "nope", "profile.json"), "--for", "training"], "plan_not_found", /plan '.*nope.*' not found/],
+    ["plan is not a profile", [trainFile, "--plan", writeFile(dir, "x.json", '{"a":1}'), "--for", "training"], "bad_profile", /is not a tailsift profile/],
+    ["plan without levels.parquet", [trainFile, "--plan", bareDir, "--for", "scoring"], "plan_without_levels", /no levels\.parquet beside profile\.json/],
+    ["plan from another file", [other, "--plan", planDir, "--for", "scoring"], "plan_mismatch", /the input lacks the plan's columns 'shop', 'colour'.*rescan/],
+    ["training without the target column", [noTarget, "--plan", planDir, "--for", "training"], "target_missing", /--for training needs the plan's target column 'y'/],
+    ["leave-one-out when scoring", [trainFile, "--plan", planDir, "--for", "scoring", "--leave-one-out"], "bad_option", /--leave-one-out applies to --for training only/],
+    ["unknown --keep column", [trainFile, "--plan", planDir, "--for", "scoring", "--keep", "nope"], "unknown_column", /--keep: column 'nope' not in the input/],
+    ["fold column clash", [withFold, "--plan", planDir, "--for", "training", "--keep", "fold"], "name_clash", /two columns named 'fold'; choose another name with --fold-column/],
+    ["no --for", [trainFile, "--plan", planDir], "commander.missingMandatoryOptionValue", /required option '--for <use>'/],
+    ["bad --for", [trainFile, "--plan", planDir, "--for", "testing"], "commander.invalidArgument", /--for.*training, scoring/],
+  ])("%s", async (_name, args, code, message) => {
+    // exit 2, the error code and one line (commander's own errors for option misuse; see test/helpers/cliError.ts)
+    await expectCliError(["encode", ...args, "--out", out], code, message);
     expect(fs.existsSync(out)).toBe(false);
     expect(fs.readdirSync(dir).filter((f) => f.endsWith(".tmp"))).toEqual([]);
   });
 
   it("an unsupported output extension is refused before any work", async () => {
-    const c = collector();
-    expect(await runEncodeCli(["encode", trainFile, "--plan", planDir, "--for", "scoring", "--out", path.join(dir, "out.xlsx")], c.io)).toBe(2);
-    expect(c.err).toMatch(/--out '.*out\.xlsx': the extension decides the format/);
+    await expectCliError(["encode", trainFile, "--plan", planDir, "--for", "scoring", "--out", path.join(dir, "out.xlsx")], "bad_output", /--out '.*out\.xlsx': the extension decides the format/);
+    expect(fs.existsSync(path.join(dir, "out.xlsx"))).toBe(false);
   });
 
   it("--fold-column resolves the clash", async () => {

@@ -6,7 +6,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import { expect } from "vitest";
-import { foldSql } from "../../src/engine/aggregate.js";
+import { rowHashFoldSql as foldSql } from "../../src/engine/folds.js";
 import { withEngine } from "../../src/engine/db.js";
 import { openSource } from "../../src/engine/source.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
@@ -37,7 +37,7 @@ export async function scanFolds(file: string, profile: Profile): Promise<Map<str
   return withEngine({ threads: 1 }, async (engine) => {
     await openSource(engine, [file]);
     const s = profile.settings;
-    const rows = await engine.rows<{ id: string; fold: number }>(`SELECT id, ${foldSql(s.foldColumns as string[], s.seed, s.folds)} AS fold FROM tailsift_src`, "folds");
+    const rows = await engine.rows<{ id: string; fold: number }>(`SELECT id, ${foldSql(s.fold!.keyColumns, s.seed, s.folds)} AS fold FROM tailsift_src`, "folds");
     return new Map(rows.map((r) => [r.id, r.fold]));
   });
 }

@@ -9,7 +9,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { encode } from "../../src/commands/encode.js";
-import { foldSql } from "../../src/engine/aggregate.js";
+import { rowHashFoldSql as foldSql } from "../../src/engine/folds.js";
 import { withEngine } from "../../src/engine/db.js";
 import { openSource } from "../../src/engine/source.js";
 import type { Profile } from "../../src/profile/types.js";
@@ -33,7 +33,7 @@ async function inputOrder(file: string, withFolds: boolean): Promise<{ ids: stri
   return withEngine({ threads: 1 }, async (engine) => {
     await openSource(engine, [file]);
     const s = profile.settings;
-    const fold = withFolds ? foldSql(s.foldColumns as string[], s.seed, s.folds) : "0";
+    const fold = withFolds ? foldSql(s.fold!.keyColumns, s.seed, s.folds) : "0";
     const rows = await engine.rows<{ id: string; fold: number }>(`SELECT appointment_id AS id, ${fold} AS fold FROM tailsift_src`, "order");
     return { ids: rows.map((r) => r.id), folds: rows.map((r) => r.fold) };
   });

@@ -40,7 +40,10 @@ describe("applyEvidence", () => {
     expect(kept.reasons.at(-1)).toMatch(/stands/);
     const none = applyEvidence(column("categorical", frequency), evidence("overall-mean", [cand("overall-mean", 0.65)]), DEFAULT_POLICY);
     expect(none.encoding).toBe("frequency");
-    expect(none.reasons).toHaveLength(4);
+    // the rules' reason, the comparison and why the rules' choice stands — not the one-SE rule's
+    // preference for the overall mean, which is not the decision (issue 14, point 8)
+    expect(none.reasons).toHaveLength(3);
+    expect(none.reasons.join(" ")).not.toMatch(/prefers/);
   });
 
   it("a hierarchy candidate turns an identifier's drop into target-kfold with its params", () => {

@@ -8,7 +8,7 @@ import { buildLevelTotals } from "../../src/engine/levels.js";
 import { openSource } from "../../src/engine/source.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
 import { resolveTarget } from "../../src/engine/target.js";
-import { foldSql } from "../../src/engine/aggregate.js";
+import { rowHashFoldSql as foldSql, rowHashFolds } from "../../src/engine/folds.js";
 import type { TargetKind } from "../../src/profile/types.js";
 
 export interface Pass { engine: Engine; columns: string[]; levelColumns: string[] }
@@ -21,9 +21,8 @@ export async function withLevelTable<T>(
   return withEngine({ threads: 1 }, async (engine) => {
     const source = await openSource(engine, [file]);
     await buildLevelTable(engine, {
-      view: source.view, identityColumns: source.columns, levelColumns, countColumns: [],
+      view: source.view, levelColumns, countColumns: [], fold: rowHashFolds(source.columns, 5, 42),
       target: target ? resolveTarget({ column: target.column, kind: target.kind }, target.kind === "binary" ? ["0", "1"] : ["1.5", "2.5", "3"]) : undefined,
-      folds: 5, seed: 42,
     });
     await buildLevelTotals(engine);
     return fn({ engine, columns: source.columns, levelColumns });

@@ -8,8 +8,8 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { scanLevels } from "../../src/commands/levels.js";
 import { withEngine } from "../../src/engine/db.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
+import { expectCliError } from "../helpers/cliError.js";
 import { tempDir, writeFile } from "../helpers/tmp.js";
-import { cli } from "./helpers.js";
 
 const dir = tempDir("levels-errors");
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
@@ -36,32 +36,28 @@ beforeAll(async () => {
 });
 
 describe("scan --levels refuses what it cannot read (exit 2)", () => {
-  const cases: [string, string[], RegExp][] = [
-    ["a file without the level-table columns", ["missing.parquet"], /not a level table: missing columns fold, n_y, sum_y, sum_y2/],
-    ["a file that does not exist", ["nowhere.parquet"], /not found/],
-    ["a negative fold", ["bad-fold.csv"], /fold outside 0\.\.99/],
-    ["n_y larger than rows", ["bad-counts.csv"], /n_y outside 0\.\.rows/],
+  const cases: [string, string[], string, RegExp][] = [
+    ["a file without the level-table columns", ["missing.parquet"], "bad_level_table", /not a level table: missing columns fold, n_y, sum_y, sum_y2/],
+    ["a file that does not exist", ["nowhere.parquet"], "input_not_found", /not found/],
+    ["a negative fold", ["bad-fold.csv"], "bad_level_table", /fold outside 0\.\.99/],
+    ["n_y larger than rows", ["bad-counts.csv"], "bad_level_table", /n_y outside 0\.\.rows/],
   ];
-  for (const [label, files, message] of cases) {
+  for (const [label, files, code, message] of cases) {
     it(label, async () => {
-      const r = await cli(["scan", "--levels", ...files.map(at), "--no-progress"]);
-      expect(r.code).toBe(2);
-      expect(r.err).toMatch(message);
+      await expectCliError(["scan", "--levels", ...files.map(at), "--no-progress"], code, message);
     });
   }
 
   it("options that read raw rows", async () => {
-    const r = await cli(["scan", "--levels", at("good.csv"), "--as-categorical", "colour", "--no-progress"]);
-    expect(r.code).toBe(2);
-    expect(r.err).toMatch(/--as-categorical does not apply to --levels/);
+    await expectCliError(["scan", "--levels", at("good.csv"), "--as-categorical", "colour", "--no-progress"], "bad_option", /--as-categorical does not apply to --levels/);
   });
 
   it("--target on a table without target sums, and --target-kind binary on continuous sums", async () => {
-    await expect(scanLevels([at("no-target.csv")], { target: "y" })).rejects.toThrow(/carry no target values/);
-    await expect(scanLevels([at("continuous.csv")], { target: "y", targetKind: "binary" })).rejects.toThrow(/not those of a 0\/1 target/);
-    await expect(scanLevels([at("good.csv")], { columns: ["weight"] })).rejects.toThrow(/'weight' is not in the level tables/);
+    await expect(scanLevels([at("no-target.csv")], { target: "y" })).rejects.toMatchObject({ code: "target_empty", exitCode: 2, message: expect.stringMatching(/carry no target values/) });
+    await expect(scanLevels([at("continuous.csv")], { target: "y", targetKind: "binary" })).rejects.toMatchObject({ code: "target_needs_positive", exitCode: 2, message: expect.stringMatching(/not those of a 0\/1 target/) });
+    await expect(scanLevels([at("good.csv")], { columns: ["weight"] })).rejects.toMatchObject({ code: "unknown_column", exitCode: 2, message: expect.stringMatching(/'weight' is not in the level tables/) });
     const renamed = writeFile(dir, "named-target.csv", `${GOOD.replaceAll("size,", "target,")}\n`);
-    await expect(scanLevels([renamed])).rejects.toThrow(/name the target with --target NAME/);
+    await expect(scanLevels([renamed])).rejects.toMatchObject({ code: "bad_option", exitCode: 2, message: expect.stringMatching(/name the target with --target NAME/) });
   });
 });
 

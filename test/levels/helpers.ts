@@ -1,7 +1,6 @@
 /**
- * Helpers for the level-table tests: a CLI runner that also knows `tailsift sql` (registered by
- * the lead in cli.ts; added here when it is not yet), a tolerant deep comparison, and a DuckDB
- * copy of a CSV made through the same text view scan reads.
+ * Helpers for the level-table tests: an in-process CLI runner, a tolerant deep comparison, and a
+ * DuckDB copy of a CSV made through the same text view scan reads.
  */
 import { execFileSync } from "node:child_process";
 import path from "node:path";
@@ -14,7 +13,7 @@ import { collector } from "../helpers/tmp.js";
 
 export interface CliResult { code: number; out: string; err: string }
 
-/** Runs the CLI in-process; `sql` goes through addSqlCommand when cli.ts does not register it yet. */
+/** Runs the CLI in-process (runCli) and returns the exit code and what it printed. */
 export async function cli(argv: string[]): Promise<CliResult> {
   const c = collector();
   const code = await runCli(argv, c.io);

@@ -10,11 +10,12 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { scanLevels } from "../../src/commands/levels.js";
 import { levelSql } from "../../src/commands/sql.js";
-import { foldSql } from "../../src/engine/aggregate.js";
+import { rowHashFoldSql as foldSql } from "../../src/engine/folds.js";
 import { withEngine } from "../../src/engine/db.js";
 import { validateProfile } from "../../src/profile/schema.js";
 import type { ColumnProfile, Profile } from "../../src/profile/types.js";
 import { tempDir } from "../helpers/tmp.js";
+import { expectCliError } from "../helpers/cliError.js";
 import { cli, expectSame, generateAppointments, loadAsTable, writeLevels } from "./helpers.js";
 
 const dir = tempDir("levels");
@@ -32,10 +33,10 @@ function expectSameFigures(levels: Profile, direct: Profile): void {
   expect(measured.sort()).toEqual(reference.map((c) => c.name).sort());
   for (const column of reference) expectSame(levels.columns.find((c) => c.name === column.name), column, column.name);
   expectSame(levels.target, direct.target, "target");
-  const { foldColumns: _a, levelFolds: _b, foldHash, ...settings } = levels.settings;
-  const { foldColumns: _c, foldHash: _d, ...expected } = direct.settings;
+  const { fold, levelFolds: _b, ...settings } = levels.settings;
+  const { fold: directFold, ...expected } = direct.settings;
   // folds of a level table come from the user's fold expression: no row-hash fold columns are claimed
-  expect(foldHash).toBe("the fold expression given to tailsift sql");
+  expect(fold).toEqual({ kind: "external", hash: "the fold expression given to tailsift sql", seed: directFold!.seed, k: directFold!.k, keyColumns: [] });
   expect(levels.settings.foldColumns).toBeUndefined();
   expectSame(settings, expected, "settings");
   expect(levels.input.rows).toBe(direct.input.rows);
@@ -124,9 +125,7 @@ describe("scan --levels against a direct scan", () => {
   });
 
   it("refuses tables whose columns disagree on the row totals (exit 2)", async () => {
-    const r = await cli(["scan", "--levels", at("shard-a.parquet"), at("short.parquet"), "--no-progress"]);
-    expect(r.code).toBe(2);
-    expect(r.err).toMatch(/level tables disagree on row totals/);
+    await expectCliError(["scan", "--levels", at("shard-a.parquet"), at("short.parquet"), "--no-progress"], "level_totals_disagree", /level tables disagree on row totals/);
   });
 });
 
@@ -155,9 +154,7 @@ describe("a plan advised from level tables", () => {
     const made = await cli(["scan", "--levels", at("levels.parquet"), "--target", "no_show", "--out", out, "--quiet", "--no-progress",
       "--decide", "owner_postcode=target-kfold"]);
     expect(made.code, made.err).toBe(0);
-    const training = await cli(["encode", csv, "--plan", out, "--out", at("train.parquet"), "--for", "training", "--quiet"]);
-    expect(training.code).toBe(2);
-    expect(training.err).toMatch(/no settings\.foldColumns/);
+    await expectCliError(["encode", csv, "--plan", out, "--out", at("train.parquet"), "--for", "training", "--quiet"], "bad_plan", /settings\.fold\.kind is external/);
     expect(fs.existsSync(at("train.parquet"))).toBe(false);
     const scoring = await cli(["encode", csv, "--plan", out, "--out", at("score.parquet"), "--for", "scoring", "--quiet"]);
     expect(scoring.code, scoring.err).toBe(0);

@@ -8,6 +8,7 @@ import { afterAll, describe, expect, it } from "vitest";
 import { runCli } from "../../src/cli.js";
 import { MAX_LINE_BYTES } from "../../src/engine/source.js";
 import type { Profile } from "../../src/profile/types.js";
+import { expectCliError } from "../helpers/cliError.js";
 import { collector, tempDir, writeFile } from "../helpers/tmp.js";
 
 const dir = tempDir("large-fields");
@@ -19,13 +20,11 @@ async function profile(args: string[]): Promise<Profile> {
   return JSON.parse(c.out) as Profile;
 }
 
-async function oneLineError(args: string[]): Promise<string> {
-  const c = collector();
-  expect(await runCli(args, c.io), c.err).toBe(2);
-  const lines = c.err.trimEnd().split("\n");
-  expect(lines, c.err).toHaveLength(1);
-  expect(c.err.length).toBeLessThan(400); // DuckDB's "Original Line" (megabytes here) is never copied
-  return lines[0]!;
+/** The error contract (test/helpers/cliError.ts): exit 2, error code, one line matching `message`. */
+async function oneLineError(args: string[], code: string, message: RegExp): Promise<string> {
+  const f = await expectCliError(args, code, message);
+  expect(f.stderr.length).toBeLessThan(400); // DuckDB's "Original Line" (megabytes here) is never copied
+  return f.stderr.trimEnd();
 }
 
 describe("large fields", () => {
@@ -44,8 +43,7 @@ describe("large fields", () => {
 
   it("a line longer than 16 MiB is an error naming the file", async () => {
     const file = writeFile(dir, "huge-line.csv", `clinic,note\nNorth,${"y".repeat(17 * 2 ** 20)}\n`);
-    expect(await oneLineError(["scan", file, "--threads", "1"]))
-      .toMatch(/cannot read '.*huge-line\.csv' near line \d+: a line of 17\.0 MiB is longer than the 16\.0 MiB tailsift reads/);
+    await oneLineError(["scan", file, "--threads", "1"], "line_too_long", /cannot read '.*huge-line\.csv' near line \d+: a line of 17\.0 MiB is longer than the 16\.0 MiB tailsift reads/);
   });
 });
 

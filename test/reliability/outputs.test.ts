@@ -10,6 +10,7 @@ import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { runCli } from "../../src/cli.js";
 import { encode } from "../../src/commands/encode.js";
+import { expectCliError } from "../helpers/cliError.js";
 import { collector, mulberry32, tempDir, writeFile } from "../helpers/tmp.js";
 
 const dir = tempDir("outputs");
@@ -54,9 +55,7 @@ describe("an existing output is replaced only by a complete one", () => {
     const before = Object.fromEntries(files.map((f) => [f, digest(path.join(out, f))]));
 
     const bad = writeFile(dir, "bad.csv", "clinic,species,no_show\nc1,dog,1\nc2,cat,1\n");
-    const c = collector();
-    expect(await runCli(["scan", bad, "--target", "no_show", "--out", out], c.io)).toBe(2);
-    expect(c.err).toMatch(/single value/);
+    await expectCliError(["scan", bad, "--target", "no_show", "--out", out], "target_single_value", /single value/);
     expect(fs.readdirSync(out).sort()).toEqual(files); // no temp files either
     for (const f of files) expect(digest(path.join(out, f)), f).toBe(before[f]);
   });
@@ -67,12 +66,18 @@ describe("signals", () => {
     const input = path.join(dir, "big.csv");
     execFileSync("node", ["sample-data/generate.mjs", "--rows", "1200000", "--seed", "4", "--out", input]);
     const out = path.join(dir, "term");
-    const child = spawn("node", ["dist/cli.js", "scan", input, "--target", "no_show", "--out", out, "--threads", "1"], { stdio: ["ignore", "pipe", "pipe"] });
+    // TAILSIFT_TRACE=1 prints a line after each engine step: the first one means the signal handlers
+    // are installed and the engine is open, so SIGTERM arrives mid-scan however slow the machine is
+    // (a fixed delay raced node's start-up under load)
+    const child = spawn("node", ["dist/cli.js", "scan", input, "--target", "no_show", "--out", out, "--threads", "1"],
+      { stdio: ["ignore", "pipe", "pipe"], env: { ...process.env, TAILSIFT_TRACE: "1" } });
     let stderr = "";
-    child.stderr.on("data", (d: Buffer) => { stderr += d.toString(); });
-    await new Promise((r) => setTimeout(r, 1500));
+    const exited = new Promise<number | null>((resolve) => child.on("exit", (c) => resolve(c)));
+    await Promise.race([exited, new Promise<void>((resolve) => {
+      child.stderr.on("data", (d: Buffer) => { stderr += d.toString(); if (stderr.includes("[tailsift]")) resolve(); });
+    })]);
     child.kill("SIGTERM");
-    const code = await new Promise<number | null>((resolve) => child.on("exit", (c) => resolve(c)));
+    const code = await exited;
     expect(code, stderr).toBe(143);
     expect(stderr).not.toMatch(/\n\s+at /);
     const left = fs.existsSync(out) ? fs.readdirSync(out) : [];

@@ -9,7 +9,8 @@ import fs from "node:fs";
 import fc from "fast-check";
 import { afterAll, describe, expect, it } from "vitest";
 import { scan } from "../../src/commands/scan.js";
-import { buildLevelTable, foldSql, LEVEL_TABLE } from "../../src/engine/aggregate.js";
+import { buildLevelTable, LEVEL_TABLE } from "../../src/engine/aggregate.js";
+import { rowHashFoldSql as foldSql, rowHashFolds } from "../../src/engine/folds.js";
 import { withEngine } from "../../src/engine/db.js";
 import { openSource } from "../../src/engine/source.js";
 import { validateProfile } from "../../src/profile/schema.js";
@@ -86,7 +87,7 @@ async function oofFromLevelTable(rows: Row[], folds: number, m: number): Promise
   return withEngine({ threads: 1 }, async (engine) => {
     const source = await openSource(engine, [file]);
     // the fold hashes the id only here, so flipping y cannot move a row to another fold
-    await buildLevelTable(engine, { view: source.view, identityColumns: ["id"], levelColumns: ["grp"], countColumns: [], target: { column: "y", kind: "binary" }, folds, seed: 7 });
+    await buildLevelTable(engine, { view: source.view, levelColumns: ["grp"], countColumns: [], target: { column: "y", kind: "binary" }, fold: rowHashFolds(["id"], folds, 7) });
     const table = await engine.rows<{ col: number; level: string | null; fold: number; n_y: number; sum_y: number }>(
       `SELECT col, level, fold, n_y::DOUBLE AS n_y, sum_y FROM ${LEVEL_TABLE}`, "reading the level table");
     const foldOf = await engine.rows<{ id: string; fold: number }>(`SELECT id, ${foldSql(["id"], 7, folds)} AS fold FROM ${source.view}`, "reading folds");

@@ -12,19 +12,17 @@ import { MIN_MEMORY_BYTES, parseMemoryLimit, withEngine } from "../../src/engine
 import { PASS_BATCH } from "../../src/engine/aggregate.js";
 import { checkMeasuredWidth, MAX_MEASURED_COLUMNS, type Source } from "../../src/engine/source.js";
 import type { Profile } from "../../src/profile/types.js";
+import { expectCliError } from "../helpers/cliError.js";
 import { collector, mulberry32, tempDir, writeFile } from "../helpers/tmp.js";
 
 const dir = tempDir("resources");
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 const small = writeFile(dir, "small.csv", "clinic,species\nNorth,dog\nSouth,cat\nNorth,cat\n");
 
-async function oneLineError(args: string[]): Promise<string> {
-  const c = collector();
-  expect(await runCli(args, c.io), c.err).toBe(2);
-  const lines = c.err.trimEnd().split("\n");
-  expect(lines, c.err).toHaveLength(1);
-  expect(c.err).not.toMatch(/\n\s+at /);
-  return lines[0]!;
+/** The error contract (test/helpers/cliError.ts): exit 2, error code, one line matching `message`. */
+async function oneLineError(args: string[], code: string, message: RegExp): Promise<string> {
+  const f = await expectCliError(args, code, message);
+  return f.stderr.trimEnd();
 }
 
 async function profile(args: string[]): Promise<Profile> {
@@ -42,7 +40,7 @@ describe("--memory-limit, --threads and --temp-dir are checked before DuckDB sta
     ["-1GB", /--memory-limit '-1GB' is not a size/], // DuckDB reads -1GB as "no limit" (measured)
     ["150%", /--memory-limit '150%' is not a share from 1% to 100%/],
   ])("--memory-limit %s → exit 2 naming the option", async (value, message) => {
-    expect(await oneLineError(["scan", small, "--memory-limit", value])).toMatch(message);
+    await oneLineError(["scan", small, "--memory-limit", value], "bad_option", message);
   });
 
   it("accepts DuckDB's units and a share of RAM", () => {
@@ -59,9 +57,9 @@ describe("--memory-limit, --threads and --temp-dir are checked before DuckDB sta
   });
 
   it("--threads 0 and an unwritable --temp-dir", async () => {
-    expect(await oneLineError(["scan", small, "--threads", "0"])).toMatch(/--threads must be a whole number from 1 to 1024 \(got 0\)/);
-    expect(await oneLineError(["scan", small, "--temp-dir", "/sys/tailsift-spill"])).toMatch(/--temp-dir '\/sys\/tailsift-spill' is not a writable folder/);
-    expect(await oneLineError(["scan", small, "--temp-dir", path.join(small, "x")])).toMatch(/--temp-dir .* is not a writable folder/);
+    await oneLineError(["scan", small, "--threads", "0"], "bad_option", /--threads must be a whole number from 1 to 1024 \(got 0\)/);
+    await oneLineError(["scan", small, "--temp-dir", "/sys/tailsift-spill"], "bad_option", /--temp-dir '\/sys\/tailsift-spill' is not a writable folder/);
+    await oneLineError(["scan", small, "--temp-dir", path.join(small, "x")], "bad_option", /--temp-dir .* is not a writable folder/);
   });
 
   it("a --temp-dir that does not exist yet is accepted and not left behind", async () => {

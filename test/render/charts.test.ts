@@ -21,7 +21,7 @@ const layers = (spec: Record<string, unknown> | null): Layer[] => (spec?.layer ?
 
 describe("funnelLimitPoints", () => {
   // Spiegelhalter (2005), Stat. Med. 24:1185–1202, normal limits p0 ± z·√(p0(1−p0)/n);
-  // CHECKS.md (recomputed): p0 = 0.1, n = 100 → 95 % 0.04120–0.15880, 99.8 % 0.00729–0.19271.
+  // docs/references.md "Funnel plot limits" (recomputed): p0 = 0.1, n = 100 → 95 % 0.04120–0.15880, 99.8 % 0.00729–0.19271.
   it("gives the published-formula limits at p0 = 0.1, n = 100", () => {
     const [p95] = funnelLimitPoints(0.1, 100, 100, 1.959964);
     expect(p95?.n).toBe(100);
@@ -101,7 +101,7 @@ describe("chart specs", () => {
     funnel: [{ value: "a", rows: 100, rate: 0.1 }, { value: "<script>alert(1)</script>", rows: 400, rate: 0.3 }],
   } });
 
-  it("draws the funnel limits from funnelLimitPoints (Spiegelhalter 2005; CHECKS.md values at n = 100)", () => {
+  it("draws the funnel limits from funnelLimitPoints (Spiegelhalter 2005; docs/references.md values at n = 100)", () => {
     const limits = layers(funnelChartSpec(funnelColumn, target))[0]!.data.values;
     const at100 = (limit: string, side: string) => limits.find((v) => v.n === 100 && v.limit === limit && v.side === side)?.bound as number;
     expect(at100("95 %", "low")).toBeCloseTo(0.0412, 5);

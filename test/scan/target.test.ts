@@ -5,7 +5,7 @@
 import fs from "node:fs";
 import { afterAll, describe, expect, it } from "vitest";
 import { scan } from "../../src/commands/scan.js";
-import { foldSql } from "../../src/engine/aggregate.js";
+import { rowHashFoldSql as foldSql } from "../../src/engine/folds.js";
 import { withEngine } from "../../src/engine/db.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
 import type { ColumnProfile, Profile } from "../../src/profile/types.js";
@@ -38,7 +38,7 @@ describe("level rates and Wilson intervals", () => {
     const [a, b] = col(p, "grp").topLevels;
     // Newcombe (1998), Statistics in Medicine 17:857–872, method 3 (Wilson): 0.2553–0.3662 and 0.0624–0.1605
     expect(a?.targetMean).toBeCloseTo(81 / 263, 12);
-    expect(a?.low).toBeCloseTo(0.255289, 6); // recomputed to six places (CHECKS.md)
+    expect(a?.low).toBeCloseTo(0.255289, 6); // recomputed to six places (docs/references.md "Wilson score interval")
     expect(a?.high).toBeCloseTo(0.36621, 5);
     expect(b?.low).toBeCloseTo(0.062386, 6);
     expect(b?.high).toBeCloseTo(0.160487, 6);
@@ -56,13 +56,13 @@ describe("prior weight m fitted from the level table", () => {
     const p = await scan([file], { target: "y", columns: ["grp"] });
     const prior = col(p, "grp").target?.prior;
     expect(prior?.mean).toBeCloseTo(215 / 810, 12);
-    // CHECKS.md (recomputed): S = 3.709877, rho = 0.0027101, m = 368.0 with the (k − 1) moment form
+    // docs/references.md "Shrinkage of level means" (recomputed): S = 3.709877, rho = 0.0027101, m = 368.0 with the (k − 1) moment form
     expect(prior?.rho).toBeCloseTo(0.0027101, 6);
     expect(prior?.weight).toBeCloseTo(368.0, 0);
   });
 
   it("rat tumour data (Gelman et al., BDA3 ch. 5, from Tarone 1982): m = 21.64", async () => {
-    // published data set, 70 historical experiments (CHECKS.md)
+    // published data set, 70 historical experiments (docs/references.md "Shrinkage of level means")
     const y = [...Array(14).fill(0), ...Array(8).fill(1), ...Array(9).fill(2), 1, 5, 2, 5, 3, 2, 7, 7, 3, 3, 2, 9, 10,
       ...Array(7).fill(4), 10, 4, 4, 4, 5, 11, 12, 5, 5, 6, 5, 6, 6, 6, 6, 16, 15, 15, 9];
     const n = [...Array(7).fill(20), ...Array(4).fill(19), 18, 18, 17, 20, 20, 20, 20, 19, 19, 18, 18, 25, 24, 23,
@@ -75,7 +75,7 @@ describe("prior weight m fitted from the level table", () => {
     const file = trialsCsv("rats.csv", y.map((yi, i) => [`e${String(i).padStart(2, "0")}`, yi, n[i]!]));
     const p = await scan([file], { target: "y", columns: ["grp"] });
     const prior = col(p, "grp").target?.prior;
-    // CHECKS.md (recomputed): p̂ = 0.152464, rho = 0.044166, m = 21.64
+    // docs/references.md "Shrinkage of level means" (recomputed): p̂ = 0.152464, rho = 0.044166, m = 21.64
     expect(prior?.mean).toBeCloseTo(0.152464, 6);
     expect(prior?.rho).toBeCloseTo(0.044166, 6);
     expect(prior?.weight).toBeCloseTo(21.64, 2);
@@ -98,12 +98,17 @@ function leakageCsv(rows: number, seed: number): string {
 
 describe("the leakage gap", () => {
   const file = writeFile(dir, "leak.csv", leakageCsv(6000, 11));
-  it("shows in-sample AUC well above 0.5 and out-of-fold near 0.5 for a noise column; signal keeps it", async () => {
+  it("scores a noise column at m = ∞ (no detectable spread: the prior, AUC 0.5 in-sample) and keeps the signal", async () => {
     const p = await scan([file], { target: "y", columns: ["noise", "signal"] });
     const noise = col(p, "noise").target!.leakage;
     const signal = col(p, "signal").target!.leakage;
     expect(noise.metric).toBe("auc");
-    expect(noise.inSample!).toBeGreaterThan(0.7);
+    // no detectable spread is the limit m → ∞: every level is encoded as the overall mean, one
+    // value for every row, so the in-sample AUC is exactly ½ (all pairs tied; Mann–Whitney ties ½).
+    // Before, the leakage was scored at m = 0 (raw level means) and showed an in-sample AUC > 0.7.
+    expect(col(p, "noise").target!.prior.weight).toBeNull();
+    expect(noise.weightUsed).toBeNull();
+    expect(noise.inSample!).toBe(0.5);
     expect(Math.abs(noise.outOfFold! - 0.5)).toBeLessThan(0.05);
     expect(signal.outOfFold!).toBeGreaterThan(0.65);
     expect(signal.inSample! - signal.outOfFold!).toBeLessThan(0.02);
@@ -118,13 +123,14 @@ describe("the leakage gap", () => {
     const rows = await withEngine({}, (e) => e.rows<{ id: string; noise: string; signal: string; y: string; amount: string; fold: number }>(
       `SELECT *, ${foldSql(["id", "noise", "signal", "y", "amount"], 42, 5)} AS fold FROM read_csv(${quoteLiteral(small)}, all_varchar = true)`, "test"));
     for (const name of ["noise", "signal"] as const) {
-      const m = col(p, name).target!.leakage.weightUsed!;
+      const m = col(p, name).target!.leakage.weightUsed ?? Infinity; // null = no detectable spread, m = ∞
       const oof = rows.map((r) => {
         const others = rows.filter((o) => o.fold !== r.fold);
         const prior = others.reduce((s, o) => s + Number(o.y), 0) / others.length;
         const same = others.filter((o) => o[name] === r[name]);
         // a level unseen in the other folds (with m = 0) falls back to the other folds' mean
-        return same.length + m === 0 ? prior : (same.reduce((s, o) => s + Number(o.y), 0) + m * prior) / (same.length + m);
+        // m = ∞ is the limit where every level takes the prior
+        return m === Infinity || same.length + m === 0 ? prior : (same.reduce((s, o) => s + Number(o.y), 0) + m * prior) / (same.length + m);
       });
       let wins = 0;
       let pairs = 0;
@@ -133,12 +139,12 @@ describe("the leakage gap", () => {
       }));
       expect(col(p, name).target!.leakage.outOfFold).toBeCloseTo(wins / pairs, 9);
 
-      const mc = col(pc, name).target!.leakage.weightUsed!;
+      const mc = col(pc, name).target!.leakage.weightUsed ?? Infinity;
       const pred = rows.map((r) => {
         const others = rows.filter((o) => o.fold !== r.fold);
         const prior = others.reduce((s, o) => s + Number(o.amount), 0) / others.length;
         const same = others.filter((o) => o[name] === r[name]);
-        return same.length + mc === 0 ? prior : (same.reduce((s, o) => s + Number(o.amount), 0) + mc * prior) / (same.length + mc);
+        return mc === Infinity || same.length + mc === 0 ? prior : (same.reduce((s, o) => s + Number(o.amount), 0) + mc * prior) / (same.length + mc);
       });
       const mean = rows.reduce((s, r) => s + Number(r.amount), 0) / rows.length;
       const sse = rows.reduce((s, r, i) => s + (Number(r.amount) - pred[i]!) ** 2, 0);

@@ -1,7 +1,7 @@
 import { describe, it, expect } from "vitest";
 import {
   summariseCountOfCounts, normaliseCountOfCounts, coverageLevels, rareLevels, goodTuringUnseen,
-  goodTuringUnseenInterval, chao1, chao1BiasCorrected,
+  goodTuringUnseenInterval,
 } from "../../src/stats/index.js";
 import type { CountOfCounts } from "../../src/stats/index.js";
 import { seededRandom, randomInt } from "./seededRandom.js";
@@ -50,7 +50,7 @@ describe("summariseCountOfCounts", () => {
 
 describe("goodTuringUnseen", () => {
   it("gives n1/N on the full prosody table", () => {
-    // Gale & Sampson (1995) prosody data: 120/30,902 = 0.0038832 (recomputed, CHECKS.md).
+    // Gale & Sampson (1995) prosody data: 120/30,902 = 0.0038832 (recomputed; docs/references.md "Unseen levels").
     expect(goodTuringUnseen(PROSODY)).toBeCloseTo(0.0038832, 7);
   });
 
@@ -85,27 +85,6 @@ describe("goodTuringUnseenInterval", () => {
     expect(got?.high).toBeLessThanOrEqual(1);
     expect(goodTuringUnseenInterval([{ count: 1, levels: 4 }])).toEqual({ rate: 1, low: 1, high: 1 });
     expect(goodTuringUnseenInterval([])).toBeNull();
-  });
-});
-
-describe("chao1", () => {
-  // R package fossil, documentation of chao1(): counts 4,5,1,1,2,0,0,1,3,0,8,45,23 → 14.5 (published).
-  const fossil = fromCounts([4, 5, 1, 1, 2, 0, 0, 1, 3, 0, 8, 45, 23]);
-
-  it("classic form S_obs + f1²/(2 f2) gives fossil's 14.5", () => {
-    expect(chao1(fossil)).toBeCloseTo(14.5, 10);
-  });
-
-  it("bias-corrected form gives 11.5 on the same data (plain computation: 10 + 3·2/(2·2))", () => {
-    expect(chao1BiasCorrected(fossil)).toBeCloseTo(11.5, 10);
-  });
-
-  it("falls back to the bias-corrected form when f2 = 0, and is 0 when empty", () => {
-    const noDoubletons = [{ count: 1, levels: 4 }, { count: 3, levels: 2 }];
-    expect(chao1(noDoubletons)).toBe(6 + (4 * 3) / 2);
-    expect(chao1BiasCorrected(noDoubletons)).toBe(6 + (4 * 3) / 2);
-    expect(chao1([])).toBe(0);
-    expect(chao1BiasCorrected([])).toBe(0);
   });
 });
 

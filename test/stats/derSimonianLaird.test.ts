@@ -1,11 +1,12 @@
 import { describe, it, expect } from "vitest";
-import { derSimonianLaird, normalNormalPriorWeight } from "../../src/stats/index.js";
+import { normalNormalPriorWeight } from "../../src/stats/index.js";
+import { derSimonianLaird } from "./reference/derSimonianLaird.js";
 import { seededRandom, randomInt } from "./seededRandom.js";
 
 describe("derSimonianLaird", () => {
   it("eight schools: μ̂ = 7.6856, SE 4.0719, Q = 4.7071, τ² = 0", () => {
-    // Rubin (1981); BDA3 ch. 5 (published dataset). Figures recomputed (CHECKS.md); the book's
-    // 7.7 ± 4.1 is from memory.
+    // Rubin (1981); BDA3 ch. 5 (published dataset). Figures recomputed (docs/references.md
+    // "Shrinkage", continuous targets); the book's 7.7 ± 4.1 is from memory.
     const y = [28, 8, -3, 7, -1, 1, 18, 12];
     const sigma = [15, 10, 16, 11, 9, 11, 10, 18];
     const fit = derSimonianLaird(y, sigma.map((s) => s * s));
@@ -20,7 +21,7 @@ describe("derSimonianLaird", () => {
 
   it("BCG vaccine trials: τ² = 0.30876, μ = −0.7141, Q = 152.23, pooled RR 0.489", () => {
     // Colditz et al. (1994), 13 trials; counts as [vaccinated TB, vaccinated no TB, control TB,
-    // control no TB] — FROM MEMORY (CHECKS.md). logRR = ln((a/(a+b))/(c/(c+d))),
+    // control no TB] — FROM MEMORY (docs/references.md "Shrinkage of level means"). logRR = ln((a/(a+b))/(c/(c+d))),
     // var = 1/a − 1/(a+b) + 1/c − 1/(c+d).
     const trials: [number, number, number, number][] = [
       [4, 119, 11, 128], // Aronson 1948
@@ -41,11 +42,11 @@ describe("derSimonianLaird", () => {
     const variances = trials.map(([a, b, c, d]) => 1 / a - 1 / (a + b) + 1 / c - 1 / (c + d));
     const fit = derSimonianLaird(effects, variances);
     expect(fit.Q).toBeCloseTo(152.23, 2); // published Q (Colditz 1994 analyses)
-    expect(fit.tau2).toBeCloseTo(0.30876, 5); // recomputed (CHECKS.md)
-    expect(fit.mean).toBeCloseTo(-0.7141, 4); // recomputed (CHECKS.md)
+    expect(fit.tau2).toBeCloseTo(0.30876, 5); // recomputed (docs/references.md)
+    expect(fit.mean).toBeCloseTo(-0.7141, 4); // recomputed (docs/references.md)
     expect(Math.exp(fit.mean)).toBeCloseTo(0.489, 2); // published pooled RR 0.489 (our 0.4896)
     // I² = (Q − (k−1))/Q (Higgins & Thompson 2002) = 0.9212 here (recomputed). The 92.2 % quoted in
-    // CHECKS.md matches a REML τ² (memory), not DL, so it is not asserted.
+    // docs/references.md matches a REML τ² (memory), not DL, so it is not asserted.
     expect(fit.i2).toBeCloseTo((fit.Q - 12) / fit.Q, 12);
     expect(fit.i2).toBeCloseTo(0.9212, 4);
   });

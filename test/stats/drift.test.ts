@@ -1,34 +1,25 @@
 import { describe, it, expect } from "vitest";
 import { seededRandom } from "./seededRandom.js";
-import { klDivergence, populationStabilityIndex, funnelLimits, expectedFalseFlags, wilsonInterval } from "../../src/stats/index.js";
+import { populationStabilityIndex, funnelLimits, funnelHalfWidth, expectedFalseFlags, wilsonInterval } from "../../src/stats/index.js";
 
-describe("klDivergence", () => {
-  it("matches the SciPy documentation: KL((.5,.5)‖(.9,.1)) = 0.5108256237659907", () => {
-    // scipy.stats.entropy([1/2, 1/2], qk=[9/10, 1/10]) documentation example (published).
-    expect(klDivergence([0.5, 0.5], [0.9, 0.1])).toBeCloseTo(0.5108256237659907, 14);
-    // Counts are normalised first, as in SciPy.
-    expect(klDivergence([5, 5], [9, 1])).toBeCloseTo(0.5108256237659907, 14);
-  });
-
-  it("is 0 for identical inputs, Infinity where q has a zero p does not, and rejects bad input", () => {
-    expect(klDivergence([1, 2, 3], [2, 4, 6])).toBe(0);
-    expect(klDivergence([0.5, 0.5], [1, 0])).toBe(Infinity);
-    expect(klDivergence([0, 1], [0.5, 0.5])).toBeCloseTo(Math.LN2, 14);
-    expect(() => klDivergence([1], [1, 2])).toThrow(RangeError);
-    expect(() => klDivergence([0, 0], [1, 1])).toThrow(RangeError);
-  });
-});
+/** KL(p‖q) = Σ p ln(p/q) in nats, written out here as the independent route to PSI. */
+function kl(p: readonly number[], q: readonly number[]): number {
+  return p.reduce((s, x, i) => s + (x === 0 ? 0 : x * Math.log(x / (q[i] ?? 1))), 0);
+}
 
 describe("populationStabilityIndex", () => {
   it("(.5,.5) vs (.9,.1) → 0.8788898 = KL(a‖e) + KL(e‖a)", () => {
-    // CHECKS.md (recomputed); the symmetric KL identity is the definition of PSI.
+    // docs/references.md "Population stability index" (recomputed); the symmetric KL identity is
+    // the definition of PSI.
     const psi = populationStabilityIndex([0.5, 0.5], [0.9, 0.1]);
     expect(psi).toBeCloseTo(0.8788898, 7);
-    expect(psi).toBeCloseTo(klDivergence([0.5, 0.5], [0.9, 0.1]) + klDivergence([0.9, 0.1], [0.5, 0.5]), 12);
+    // SciPy documents scipy.stats.entropy([1/2, 1/2], qk=[9/10, 1/10]) = 0.5108256237659907 (published).
+    expect(kl([0.5, 0.5], [0.9, 0.1])).toBeCloseTo(0.5108256237659907, 14);
+    expect(psi).toBeCloseTo(kl([0.5, 0.5], [0.9, 0.1]) + kl([0.9, 0.1], [0.5, 0.5]), 12);
   });
 
   it("(.1,.2,.3,.4) vs uniform → 0.2282174", () => {
-    // CHECKS.md (recomputed).
+    // docs/references.md "Population stability index" (recomputed).
     expect(populationStabilityIndex([0.1, 0.2, 0.3, 0.4], [0.25, 0.25, 0.25, 0.25])).toBeCloseTo(0.2282174, 7);
     // Counts give the same value.
     expect(populationStabilityIndex([10, 20, 30, 40], [5, 5, 5, 5])).toBeCloseTo(0.2282174, 7);
@@ -56,7 +47,8 @@ describe("populationStabilityIndex", () => {
 
 describe("funnelLimits", () => {
   it("p0 = 0.1, n = 100: 95 % 0.04120–0.15880, 99.8 % 0.00729–0.19271", () => {
-    // Spiegelhalter (2005), Statistics in Medicine 24:1185–1202, normal approximation (recomputed, CHECKS.md).
+    // Spiegelhalter (2005), Statistics in Medicine 24:1185–1202, normal approximation
+    // (recomputed; docs/references.md "Funnel plot limits").
     const l95 = funnelLimits(0.1, 100, 1.959964);
     expect(l95.low).toBeCloseTo(0.0412, 5);
     expect(l95.high).toBeCloseTo(0.1588, 5);
@@ -69,7 +61,21 @@ describe("funnelLimits", () => {
     expect(funnelLimits(0.01, 10, 3.090232).low).toBe(0);
     expect(funnelLimits(0.99, 10, 3.090232).high).toBe(1);
     expect(() => funnelLimits(0.1, 0, 1.96)).toThrow(RangeError);
+    expect(() => funnelLimits(0.1, 10, 1.96, -1)).toThrow(RangeError);
     expect(() => funnelLimits(1.1, 10, 1.96)).toThrow(RangeError);
+  });
+});
+
+describe("funnelLimits for a mean (with sd)", () => {
+  it("is p0 ± z·sd/√n, not clamped: mean 10, sd 5, n = 25 → 10 ± 1.959964 (plain arithmetic)", () => {
+    expect(funnelHalfWidth(10, 25, 1.959964, 5)).toBeCloseTo(1.959964, 12);
+    expect(funnelLimits(10, 25, 1.959964, 5)).toEqual({ low: 10 - 1.959964, high: 10 + 1.959964 });
+    expect(funnelLimits(-3, 1, 3.090232, 2).low).toBeCloseTo(-3 - 2 * 3.090232, 12);
+  });
+
+  it("the proportion form's half-width is z·√(p0(1−p0)/n)", () => {
+    expect(funnelHalfWidth(0.1, 100, 1.959964)).toBeCloseTo(1.959964 * Math.sqrt(0.09 / 100), 14);
+    expect(funnelHalfWidth(0, 100, 1.959964)).toBe(0);
   });
 });
 

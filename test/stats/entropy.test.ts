@@ -1,6 +1,6 @@
 import { describe, it, expect } from "vitest";
 import {
-  entropyNats, entropyBits, effectiveLevels, inverseSimpson, entropyOfProportions,
+  entropyNats, entropyBits, effectiveLevels,
 } from "../../src/stats/index.js";
 import type { CountOfCounts } from "../../src/stats/index.js";
 import { seededRandom, randomInt } from "./seededRandom.js";
@@ -11,37 +11,22 @@ function fromCounts(counts: readonly number[]): CountOfCounts[] {
   return [...table].map(([count, levels]) => ({ count, levels }));
 }
 
-describe("entropyOfProportions", () => {
-  it("matches the SciPy documentation examples", () => {
-    // SciPy docs, scipy.stats.entropy([1/2, 1/2], base=2) = 1.0 (published).
-    expect(entropyOfProportions([1 / 2, 1 / 2], 2)).toBeCloseTo(1.0, 14);
-    // SciPy docs, scipy.stats.entropy([9/10, 1/10], base=2) = 0.46899559358928117 (published).
-    expect(entropyOfProportions([9 / 10, 1 / 10], 2)).toBeCloseTo(0.46899559358928117, 14);
-  });
-
-  it("normalises counts like SciPy, skips zeros, and gives 0 for empty input", () => {
-    expect(entropyOfProportions([9, 1, 0], 2)).toBeCloseTo(0.46899559358928117, 14);
-    expect(entropyOfProportions([])).toBe(0);
-    expect(entropyOfProportions([0, 0])).toBe(0);
-    expect(() => entropyOfProportions([1, -1])).toThrow(RangeError);
-    expect(() => entropyOfProportions([1, 1], 1)).toThrow(RangeError);
-  });
-});
-
 describe("entropy from count-of-counts", () => {
-  it("entropyBits reproduces the SciPy example from a count-of-counts table", () => {
+  it("entropyBits reproduces the SciPy examples from a count-of-counts table", () => {
+    // SciPy docs (docs/references.md "Entropy and effective number of levels"): entropy([1/2, 1/2], base=2) = 1.0 (published);
+    // two levels of one row each.
+    expect(entropyBits([{ count: 1, levels: 2 }])).toBeCloseTo(1.0, 14);
     // SciPy docs: entropy([9/10, 1/10], base=2) = 0.46899559358928117 (published); levels of 9 and 1 rows.
     expect(entropyBits([{ count: 9, levels: 1 }, { count: 1, levels: 1 }])).toBeCloseTo(0.46899559358928117, 14);
   });
 
-  it("uniform over k levels gives ln k nats, log2 k bits and exp(H) = 1/Σp² = k", () => {
+  it("uniform over k levels gives ln k nats, log2 k bits and exp(H) = k", () => {
     // Jost (2006), Oikos 113:363–375: Hill numbers of every order equal k for k equal levels (published).
     for (const k of [1, 2, 7, 1000]) {
       const coc = [{ count: 3, levels: k }];
       expect(entropyNats(coc)).toBeCloseTo(Math.log(k), 12);
       expect(entropyBits(coc)).toBeCloseTo(Math.log2(k), 12);
       expect(effectiveLevels(coc)).toBeCloseTo(k, 9);
-      expect(inverseSimpson(coc)).toBeCloseTo(k, 9);
     }
   });
 
@@ -51,18 +36,13 @@ describe("entropy from count-of-counts", () => {
       const counts = Array.from({ length: randomInt(random, 1, 80) }, () => randomInt(random, 1, 30));
       const total = counts.reduce((s, c) => s + c, 0);
       let h = 0;
-      let sumP2 = 0;
       for (const c of counts) {
         h -= (c / total) * Math.log(c / total);
-        sumP2 += (c / total) ** 2;
       }
       const coc = fromCounts(counts);
       expect(entropyNats(coc)).toBeCloseTo(h, 12);
-      expect(entropyNats(coc)).toBeCloseTo(entropyOfProportions(counts), 12);
       expect(effectiveLevels(coc)).toBeCloseTo(Math.exp(h), 9);
-      expect(inverseSimpson(coc)).toBeCloseTo(1 / sumP2, 9);
-      // Hill numbers decrease with order (Jost 2006): order 2 ≤ order 1 ≤ distinct.
-      expect(inverseSimpson(coc)).toBeLessThanOrEqual(effectiveLevels(coc) + 1e-9);
+      // The Hill number of order 1 never exceeds the distinct levels (Jost 2006).
       expect(effectiveLevels(coc)).toBeLessThanOrEqual(counts.length + 1e-9);
     }
   });
@@ -71,9 +51,7 @@ describe("entropy from count-of-counts", () => {
     expect(entropyNats([])).toBe(0);
     expect(entropyBits([])).toBe(0);
     expect(effectiveLevels([])).toBe(0);
-    expect(inverseSimpson([])).toBe(0);
     expect(entropyNats([{ count: 40, levels: 1 }])).toBe(0);
     expect(effectiveLevels([{ count: 40, levels: 1 }])).toBe(1);
-    expect(inverseSimpson([{ count: 40, levels: 1 }])).toBe(1);
   });
 });

@@ -1,10 +1,10 @@
 import { describe, it, expect } from "vitest";
-import { expectedBucketsUsed, expectedCollidingLevels, birthdayCollisionProbability } from "../../src/stats/index.js";
+import { expectedBucketsUsed, expectedCollidingLevels } from "../../src/stats/index.js";
 import { seededRandom } from "./seededRandom.js";
 
 describe("expectedBucketsUsed / expectedCollidingLevels", () => {
   it("w = n = 1024 → 647.475 buckets used; w = 2¹⁸, n = 10,000 → 9,811.686", () => {
-    // CHECKS.md (recomputed from w(1 − (1 − 1/w)ⁿ)).
+    // docs/references.md "Hashing collisions" (recomputed from w(1 − (1 − 1/w)ⁿ)).
     expect(expectedBucketsUsed(1024, 1024)).toBeCloseTo(647.475, 3);
     expect(expectedBucketsUsed(10000, 2 ** 18)).toBeCloseTo(9811.686, 3);
     expect(expectedCollidingLevels(1024, 1024)).toBeCloseTo(1024 - 647.475, 3);
@@ -38,23 +38,3 @@ describe("expectedBucketsUsed / expectedCollidingLevels", () => {
   });
 });
 
-describe("birthdayCollisionProbability", () => {
-  it("w = 365: 23 → 0.507297, 57 → 0.990122, 70 → 0.999160", () => {
-    // CHECKS.md (recomputed); 50 % at 23 and 99 % at 57 are the published birthday-problem figures.
-    expect(birthdayCollisionProbability(23, 365)).toBeCloseTo(0.507297, 6);
-    expect(birthdayCollisionProbability(57, 365)).toBeCloseTo(0.990122, 6);
-    expect(birthdayCollisionProbability(70, 365)).toBeCloseTo(0.99916, 6);
-    expect(birthdayCollisionProbability(22, 365)).toBeLessThan(0.5);
-  });
-
-  it("keeps tiny probabilities precise: n = 2 gives exactly 1/w", () => {
-    expect(birthdayCollisionProbability(2, 2 ** 40) * 2 ** 40).toBeCloseTo(1, 12);
-  });
-
-  it("is 0 for n ≤ 1, 1 past the pigeonhole, and rejects fractional n", () => {
-    expect(birthdayCollisionProbability(0, 10)).toBe(0);
-    expect(birthdayCollisionProbability(1, 10)).toBe(0);
-    expect(birthdayCollisionProbability(11, 10)).toBe(1);
-    expect(() => birthdayCollisionProbability(2.5, 10)).toThrow(RangeError);
-  });
-});

@@ -1,11 +1,11 @@
 import { describe, it, expect } from "vitest";
 import {
-  aucFromGroups, AucAccumulator, hanleyMcNeilSE, rSquaredFromGroups, RSquaredAccumulator, logLossFromGroups,
+  aucFromGroups, aucFromU, mannWhitneyU, hanleyMcNeilSE, rSquaredFromGroups, rSquaredFromSums, logLossFromGroups,
 } from "../../src/stats/index.js";
 import { seededRandom, randomInt } from "./seededRandom.js";
 
 // Hanley & McNeil (1982), Radiology 143:29–36, five-point rating data, ratings 1..5
-// (table from memory): 58 normal cases and 51 abnormal cases.
+// (table from memory; docs/references.md "AUC (Mann–Whitney)"): 58 normal and 51 abnormal cases.
 const RATINGS = [1, 2, 3, 4, 5].map((score, i) => ({
   score,
   negatives: [33, 6, 6, 11, 2][i] ?? 0,
@@ -29,7 +29,7 @@ function bruteForceAuc(rows: { score: number; positive: boolean }[]): number {
 
 describe("aucFromGroups", () => {
   it("Hanley & McNeil 1982 rating data: AUC 0.893171 (paper: 0.893)", () => {
-    // CHECKS.md: 0.893171 recomputed; 0.893 published in the paper.
+    // docs/references.md "AUC (Mann–Whitney)": 0.893171 recomputed; 0.893 published in the paper.
     expect(aucFromGroups(RATINGS)).toBeCloseTo(0.893171, 6);
     expect(aucFromGroups(RATINGS)).toBeCloseTo(0.893, 3);
   });
@@ -57,29 +57,26 @@ describe("aucFromGroups", () => {
   });
 });
 
-describe("AucAccumulator", () => {
-  it("streams the Hanley & McNeil data to the same 0.893171", () => {
-    const acc = new AucAccumulator();
-    for (const g of RATINGS) acc.add(g.score, g.positives, g.negatives);
-    const result = acc.result();
-    expect(result.auc).toBeCloseTo(0.893171, 6); // CHECKS.md, recomputed
-    expect(result.positives).toBe(51);
-    expect(result.negatives).toBe(58);
+describe("aucFromU", () => {
+  it("is U/(P·N) on the Mann–Whitney sums: the Hanley & McNeil table gives U = 2642 of 51·58 = 2958 pairs", () => {
+    const sums = mannWhitneyU(RATINGS);
+    expect(sums).toMatchObject({ positives: 51, negatives: 58 });
+    // U = Σ pos·(neg below + neg/2) over the five ratings (plain arithmetic on the table above).
+    expect(sums.u).toBe(3 * 16.5 + 2 * 36 + 2 * 42 + 11 * 50.5 + 33 * 57);
+    expect(aucFromU(sums)).toBeCloseTo(0.893171, 6);
   });
 
-  it("merges equal consecutive scores and rejects descending scores", () => {
-    const acc = new AucAccumulator();
-    acc.add(1, 1, 0);
-    acc.add(1, 0, 1);
-    expect(acc.result().auc).toBe(0.5);
-    expect(() => acc.add(0.5, 1, 1)).toThrow(RangeError);
-    expect(new AucAccumulator().result()).toEqual({ auc: null, positives: 0, negatives: 0 });
+  it("is null without pairs and rejects sums that cannot be Mann–Whitney sums", () => {
+    expect(aucFromU({ u: 0, positives: 0, negatives: 5 })).toBeNull();
+    expect(aucFromU({ u: 3, positives: 2, negatives: 3 })).toBe(0.5);
+    expect(() => aucFromU({ u: 7, positives: 2, negatives: 3 })).toThrow(RangeError);
+    expect(() => aucFromU({ u: Number.NaN, positives: 2, negatives: 3 })).toThrow(RangeError);
   });
 });
 
 describe("hanleyMcNeilSE", () => {
   it("Hanley & McNeil 1982 rating data: SE 0.032487", () => {
-    // CHECKS.md (recomputed) with Q1 = A/(2−A), Q2 = 2A²/(1+A).
+    // docs/references.md "AUC (Mann–Whitney)" (recomputed) with Q1 = A/(2−A), Q2 = 2A²/(1+A).
     const auc = aucFromGroups(RATINGS) ?? 0;
     expect(hanleyMcNeilSE(auc, 51, 58)).toBeCloseTo(0.032487, 6);
   });
@@ -90,7 +87,7 @@ describe("hanleyMcNeilSE", () => {
   });
 });
 
-describe("rSquaredFromGroups / RSquaredAccumulator", () => {
+describe("rSquaredFromGroups / rSquaredFromSums", () => {
   it("equal 1 − SSE/SST computed row by row (seeded random data)", () => {
     const random = seededRandom(99);
     for (let trial = 0; trial < 20; trial++) {
@@ -108,10 +105,8 @@ describe("rSquaredFromGroups / RSquaredAccumulator", () => {
         return { prediction, rows: ys.length, sumY: ys.reduce((s, y) => s + y, 0), sumY2: ys.reduce((s, y) => s + y * y, 0) };
       });
       expect(rSquaredFromGroups(groups)).toBeCloseTo(1 - sse / sst, 9);
-      const acc = new RSquaredAccumulator();
-      for (const g of [...groups].reverse()) acc.add(g.prediction, g.rows, g.sumY, g.sumY2);
-      expect(acc.result().rSquared).toBeCloseTo(1 - sse / sst, 9);
-      expect(acc.result().rows).toBe(rows.length);
+      expect(rSquaredFromGroups([...groups].reverse())).toBeCloseTo(1 - sse / sst, 9);
+      expect(rSquaredFromSums(sse, sst)).toBeCloseTo(1 - sse / sst, 14);
     }
   });
 
@@ -120,6 +115,9 @@ describe("rSquaredFromGroups / RSquaredAccumulator", () => {
     expect(rSquaredFromGroups([{ prediction: 1, rows: 3, sumY: 0.3, sumY2: 0.03 }])).toBeNull();
     // y = 0, 2 with prediction 10: SSE = 100 + 64 = 164, SST = 2 → R² = −81 (plain arithmetic).
     expect(rSquaredFromGroups([{ prediction: 10, rows: 2, sumY: 2, sumY2: 4 }])).toBeCloseTo(-81, 10);
+    expect(rSquaredFromSums(5, 0)).toBeNull();
+    expect(rSquaredFromSums(164, 2)).toBe(-81);
+    expect(() => rSquaredFromSums(Number.NaN, 2)).toThrow(RangeError);
   });
 });
 

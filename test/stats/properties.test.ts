@@ -1,7 +1,7 @@
 import { describe, it, expect } from "vitest";
 import fc from "fast-check";
 import {
-  wilsonInterval, entropyBits, coverageLevels, rareLevels, populationStabilityIndex, aucFromGroups, AucAccumulator,
+  wilsonInterval, entropyBits, coverageLevels, rareLevels, populationStabilityIndex, aucFromGroups,
   summariseCountOfCounts,
 } from "../../src/stats/index.js";
 
@@ -88,7 +88,7 @@ describe("properties", () => {
     );
   });
 
-  it("AucAccumulator fed in ascending order equals aucFromGroups", () => {
+  it("AUC lies in [0, 1], ignores group order, and reversing the scores gives 1 − AUC", () => {
     const groups = fc.array(
       fc.record({
         score: fc.integer({ min: -20, max: 20 }).map((s) => s / 4),
@@ -99,12 +99,17 @@ describe("properties", () => {
     );
     fc.assert(
       fc.property(groups, (gs) => {
-        const acc = new AucAccumulator();
-        for (const g of [...gs].sort((a, b) => a.score - b.score)) acc.add(g.score, g.positives, g.negatives);
-        const expected = aucFromGroups(gs);
-        const got = acc.result().auc;
-        if (expected === null) expect(got).toBeNull();
-        else expect(got).toBeCloseTo(expected, 12);
+        const auc = aucFromGroups(gs);
+        const reversed = aucFromGroups(gs.map((g) => ({ ...g, score: -g.score })));
+        const shuffled = aucFromGroups([...gs].reverse());
+        if (auc === null) {
+          expect(reversed).toBeNull();
+          return;
+        }
+        expect(auc).toBeGreaterThanOrEqual(0);
+        expect(auc).toBeLessThanOrEqual(1);
+        expect(shuffled).toBeCloseTo(auc, 12);
+        expect(reversed).toBeCloseTo(1 - auc, 12);
       }),
       RUNS,
     );

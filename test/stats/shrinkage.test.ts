@@ -1,7 +1,6 @@
 import { describe, it, expect } from "vitest";
-import {
-  betaBinomialPriorWeight, betaBinomialSums, jamesSteinShrinkage, mEstimate, blendWeight,
-} from "../../src/stats/index.js";
+import { betaBinomialPriorWeight, mEstimate } from "../../src/stats/index.js";
+import { betaBinomialSums } from "./betaBinomialSums.js";
 
 // Efron & Morris (1975), JASA 70:311–319: 18 players, 45 at-bats each (published dataset).
 const EM_HITS = [18, 17, 16, 15, 14, 14, 13, 12, 11, 11, 10, 10, 10, 10, 10, 9, 8, 7];
@@ -9,7 +8,7 @@ const EM_HITS = [18, 17, 16, 15, 14, 14, 13, 12, 11, 11, 10, 10, 10, 10, 10, 9, 
 const EM_TRUTH = [0.346, 0.298, 0.276, 0.222, 0.273, 0.27, 0.263, 0.21, 0.269, 0.23, 0.264, 0.256, 0.303, 0.264, 0.226, 0.285, 0.316, 0.2];
 
 // Rat tumour data (Gelman et al., Bayesian Data Analysis 3rd ed., ch. 5, from Tarone 1982):
-// the 70 historical experiments, copied from CHECKS.md (published dataset).
+// the 70 historical experiments, copied from docs/references.md "Shrinkage of level means" (published dataset).
 const rep = (value: number, times: number): number[] => Array.from({ length: times }, () => value);
 const RAT_Y = [
   ...rep(0, 14), ...rep(1, 8), ...rep(2, 9), 1, 5, 2, 5, 3, 2, 7, 7, 3, 3, 2, 9, 10, ...rep(4, 7),
@@ -23,7 +22,7 @@ const RAT_N = [
 
 describe("betaBinomialPriorWeight (moment estimator, k − 1 form)", () => {
   it("Efron–Morris data: S = 3.709877, ρ̂ = 0.0027101, m = 368.0", () => {
-    // CHECKS.md "Shrinkage", beta-binomial moment estimator on Efron & Morris (1975) (recomputed).
+    // docs/references.md "Shrinkage of level means", beta-binomial moment estimator on Efron & Morris (1975) (recomputed).
     const sums = betaBinomialSums(EM_HITS.map((positives) => ({ rows: 45, positives })));
     expect(sums.rows).toBe(810);
     expect(sums.positives).toBe(215);
@@ -42,7 +41,7 @@ describe("betaBinomialPriorWeight (moment estimator, k − 1 form)", () => {
     const sums = betaBinomialSums(levels);
     expect(sums.positives).toBe(263);
     expect(sums.rows).toBe(1725);
-    // Moment estimator figures: CHECKS.md (recomputed; Kleinman 1973 tradition — memory).
+    // Moment estimator figures: docs/references.md "Shrinkage of level means" (recomputed; Kleinman 1973 tradition — memory).
     const fit = betaBinomialPriorWeight(sums);
     expect(fit.mean).toBeCloseTo(0.152464, 6);
     expect(fit.S).toBeCloseTo(18.1988, 4);
@@ -90,53 +89,35 @@ describe("betaBinomialPriorWeight (moment estimator, k − 1 form)", () => {
   });
 });
 
-describe("jamesSteinShrinkage (k − 3 form)", () => {
-  const rates = EM_HITS.map((h) => h / 45);
+describe("mEstimate", () => {
+  // Efron & Morris (1975): the James–Stein constant on these data is c = 0.212 (published),
+  // 0.211653 recomputed from c = 1 − (k−3)σ²/Σ(y−ȳ)² with σ² = ȳ(1−ȳ)/45 (docs/references.md
+  // "Shrinkage"). With equal n = 45 that is an m-estimate with m = 45(1 − c)/c ≈ 167.6.
   const grand = 215 / 810;
+  const rates = EM_HITS.map((h) => h / 45);
   const sigma2 = (grand * (1 - grand)) / 45;
+  const c = 1 - ((rates.length - 3) * sigma2) / rates.reduce((s, y) => s + (y - grand) ** 2, 0);
+  const m = (45 * (1 - c)) / c;
 
-  it("Efron–Morris: c = 0.212 published, 0.211653 recomputed; m = 45(1 − c)/c ≈ 167.6", () => {
-    // CHECKS.md: σ² = 0.0043328 (recomputed); c = 0.212 (Efron & Morris 1975, published).
-    expect(sigma2).toBeCloseTo(0.0043328, 7);
-    const { grandMean, c } = jamesSteinShrinkage(rates, sigma2);
-    expect(grandMean).toBeCloseTo(0.265432, 6);
+  it("is (sum + m·prior)/(n + m) (Cestnik 1990); m = 45(1−c)/c reproduces James–Stein", () => {
+    expect(sigma2).toBeCloseTo(0.0043328, 7); // recomputed
     expect(c).toBeCloseTo(0.212, 3); // published
     expect(c).toBeCloseTo(0.211653, 6); // recomputed
-    expect((45 * (1 - c)) / c).toBeCloseTo(167.6, 1); // recomputed
-  });
-
-  it("shrinkage cuts the total squared error against rest-of-season rates: 0.07532 → 0.02131", () => {
-    // CHECKS.md: raw 0.07532, shrunken 0.02131 (recomputed from Efron & Morris's published data);
-    // shrunken values use the published ȳ = .265 and c = .212: z = ȳ + c(y − ȳ).
-    const raw = rates.reduce((s, y, i) => s + (y - (EM_TRUTH[i] ?? 0)) ** 2, 0);
-    const shrunk = rates.reduce((s, y, i) => s + (0.265 + 0.212 * (y - 0.265) - (EM_TRUTH[i] ?? 0)) ** 2, 0);
-    expect(raw).toBeCloseTo(0.07532, 5);
-    expect(shrunk).toBeCloseTo(0.02131, 5);
-    // With our own ȳ and c the error is the same to 5 places (0.021307, plain recomputation).
-    const { grandMean, c } = jamesSteinShrinkage(rates, sigma2);
-    const ours = rates.reduce((s, y, i) => s + (grandMean + c * (y - grandMean) - (EM_TRUTH[i] ?? 0)) ** 2, 0);
-    expect(ours).toBeCloseTo(0.02131, 4);
-    // Shrunken values for the extremes: .294 (18 of 45) and .242 (7 of 45) (memory of the table).
-    expect(grandMean + c * (18 / 45 - grandMean)).toBeCloseTo(0.294, 3);
-    expect(grandMean + c * (7 / 45 - grandMean)).toBeCloseTo(0.242, 3);
-  });
-
-  it("documents edge cases: k ≤ 3 → c = 1, equal means → c = 0, empty → throws", () => {
-    expect(jamesSteinShrinkage([0.1, 0.5, 0.9], 0.01).c).toBe(1);
-    expect(jamesSteinShrinkage([0.3, 0.3, 0.3, 0.3], 0.01).c).toBe(0);
-    expect(jamesSteinShrinkage([0.1, 0.3, 0.5, 0.9], 10).c).toBe(0); // positive part
-    expect(() => jamesSteinShrinkage([], 0.1)).toThrow(RangeError);
-  });
-});
-
-describe("mEstimate", () => {
-  it("is (sum + m·prior)/(n + m) (Cestnik 1990); m = 45(1−c)/c reproduces James–Stein", () => {
-    // Equal n = 45: the m-estimate with m = 45(1 − c)/c equals ȳ + c(y − ȳ) (CHECKS.md, recomputed).
-    const grand = 215 / 810;
-    const c = 0.211653;
-    const m = (45 * (1 - c)) / c;
+    expect(m).toBeCloseTo(167.6, 1); // recomputed
     expect(mEstimate(18, 45, m, grand)).toBeCloseTo(grand + c * (18 / 45 - grand), 10);
+    // Shrunken values for the extremes: .294 (18 of 45) and .242 (7 of 45) (memory of the table).
+    expect(mEstimate(18, 45, m, grand)).toBeCloseTo(0.294, 3);
+    expect(mEstimate(7, 45, m, grand)).toBeCloseTo(0.242, 3);
     expect(mEstimate(3, 10, 5, 0.5)).toBeCloseTo((3 + 2.5) / 15, 14);
+  });
+
+  it("cuts the total squared error against the rest-of-season rates: 0.07532 → 0.02131", () => {
+    // docs/references.md "Shrinkage of level means": raw 0.07532, shrunken 0.02131 (recomputed from Efron &
+    // Morris's published data and truth).
+    const raw = rates.reduce((s, y, i) => s + (y - (EM_TRUTH[i] ?? 0)) ** 2, 0);
+    const shrunk = EM_HITS.reduce((s, h, i) => s + (mEstimate(h, 45, m, grand) - (EM_TRUTH[i] ?? 0)) ** 2, 0);
+    expect(raw).toBeCloseTo(0.07532, 5);
+    expect(shrunk).toBeCloseTo(0.02131, 4);
   });
 
   it("returns the prior when n + m = 0, the raw mean when m = 0, and rejects negatives", () => {
@@ -145,15 +126,5 @@ describe("mEstimate", () => {
     expect(mEstimate(4, 8, 0, 0.3)).toBe(0.5);
     expect(() => mEstimate(1, -1, 2, 0.3)).toThrow(RangeError);
     expect(() => mEstimate(1, 1, -2, 0.3)).toThrow(RangeError);
-  });
-});
-
-describe("blendWeight", () => {
-  it("λ(n) = 1/(1 + exp(−(n − k)/f)) (Micci-Barreca 2001, formula from memory)", () => {
-    // CHECKS.md (recomputed): k = 1, f = 1 → λ(3) = 0.880797, λ(0) = 0.268941; λ(k) = ½.
-    expect(blendWeight(3, 1, 1)).toBeCloseTo(0.880797, 6);
-    expect(blendWeight(0, 1, 1)).toBeCloseTo(0.268941, 6);
-    expect(blendWeight(20, 20, 7)).toBe(0.5);
-    expect(() => blendWeight(3, 1, 0)).toThrow(RangeError);
   });
 });

@@ -63,7 +63,7 @@ describe("regularizedIncompleteGamma", () => {
 
 describe("normalQuantile", () => {
   it("matches standard normal table values", () => {
-    // Standard normal quantiles (e.g. NIST/SEMATECH e-Handbook §1.3.6.7.1; CHECKS.md z values).
+    // Standard normal quantiles (e.g. NIST/SEMATECH e-Handbook §1.3.6.7.1; docs/references.md "Normal quantiles").
     expect(normalQuantile(0.975)).toBeCloseTo(1.959964, 6);
     expect(normalQuantile(0.999)).toBeCloseTo(3.090232, 6);
     expect(normalQuantile(0.995)).toBeCloseTo(2.575829, 6);

@@ -3,7 +3,7 @@ import { wilsonInterval } from "../../src/stats/index.js";
 
 describe("wilsonInterval", () => {
   // Newcombe (1998), Statistics in Medicine 17:857–872, worked examples, method 3 (published to
-  // 4 places; recomputed to 6 in CHECKS.md).
+  // 4 places; recomputed to 6 in docs/references.md "Wilson score interval").
   it.each([
     [81, 263, 0.255289, 0.366210],
     [15, 148, 0.062386, 0.160487],

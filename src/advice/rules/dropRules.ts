@@ -18,7 +18,8 @@ export function identifierRule(column: ColumnProfile): Recommendation | null {
     `Drop: ${count(column.distinct)} distinct levels in ${count(nonMissing)} non-missing rows (${pct(column.distinct / Math.max(1, nonMissing))}) and a Good-Turing unseen-level rate of ${pct(column.unseenRate)} mean most levels are seen once; an encoding of it cannot generalise and an in-sample mean of it leaks the target.`,
   ];
   const leak = column.target?.leakage;
-  if (leak && leak.inSample !== null && leak.outOfFold !== null) {
+  // at m = ∞ (no detectable spread, weightUsed null) the scored encoding is the prior itself: no gap to show
+  if (leak && leak.inSample !== null && leak.outOfFold !== null && leak.weightUsed !== null) {
     reasons.push(`In-sample ${leak.metric.toUpperCase()} ${leak.inSample.toFixed(3)} against out-of-fold ${leak.outOfFold.toFixed(3)}: the gap is what a naive mean encoding would leak.`);
   }
   return { encoding: "drop", params: { role: "identifier" }, reasons };

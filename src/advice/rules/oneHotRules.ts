@@ -44,7 +44,7 @@ export function pooledOneHotRule(column: ColumnProfile, policy: AdvicePolicy): R
   const pooledRowShare = nonMissing > 0 ? 1 - keptRows / nonMissing : 0;
   return {
     encoding: "pooled-one-hot",
-    params: { keep: kept.map((l) => l.value), other: "other", pooledRowShare, minRows: policy.minLevelRows },
+    params: { keep: kept.flatMap((l) => (l.value === null ? [] : [l.value])), other: "other", pooledRowShare, minRows: policy.minLevelRows },
     reasons: [
       `Pooled one-hot: ${count(column.distinct)} levels are more than the one-hot width of ${policy.maxOneHot} allows, but the top ${kept.length} cover ${pct(1 - pooledRowShare)} of non-missing rows (target ${pct(policy.coverage, 0)}).`,
       `The other ${count(column.distinct - kept.length)} levels (${pct(pooledRowShare)} of rows) are pooled into one "other" column.`,

@@ -14,7 +14,6 @@ export function outOfFoldSignal(column: ColumnProfile, target: ProfileTarget): {
   if (target.kind === "binary") {
     const positives = Math.round(target.mean * target.rows);
     const se = hanleyMcNeilSE(oof, positives, target.rows - positives);
-    if (se === null) return { present: false, text: `out-of-fold AUC ${num(oof)} (no standard error)` };
     const low = oof - 1.959964 * se;
     return { present: low > 0.5, text: `out-of-fold AUC ${num(oof)} (95 % lower bound ${num(low)})` };
   }

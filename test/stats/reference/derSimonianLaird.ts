@@ -1,4 +1,9 @@
 /**
+ * Test reference (not run by the tool): the textbook form of the estimator that
+ * src/stats/normalNormalPriorWeight computes from level-table sums. It is checked against
+ * published data (eight schools, BCG trials) in test/stats/derSimonianLaird.test.ts, and
+ * normalNormalPriorWeight is checked against it there.
+ *
  * DerSimonian–Laird random-effects meta-analysis (DerSimonian & Laird 1986, "Meta-analysis in
  * clinical trials", Controlled Clinical Trials 7:177–188). With wᵢ = 1/vᵢ:
  *   μ̂_FE = Σwy/Σw, Q = Σw(y − μ̂_FE)², τ² = max(0, (Q − (k−1))/(Σw − Σw²/Σw)),

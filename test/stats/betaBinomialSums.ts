@@ -1,19 +1,7 @@
-/** Sufficient sums for {@link betaBinomialPriorWeight}, as SQL computes them over a level table. */
-export interface BetaBinomialSums {
-  /** k, the number of levels (with at least one row). */
-  levels: number;
-  /** N = Σnᵢ. */
-  rows: number;
-  /** Σyᵢ, the positive rows. */
-  positives: number;
-  /** Σyᵢ²/nᵢ. */
-  sumPositivesSqOverRows: number;
-  /** Σnᵢ². */
-  sumRowsSq: number;
-}
+import type { BetaBinomialSums } from "../../src/stats/index.js";
 
 /**
- * Builds the sums that {@link betaBinomialPriorWeight} takes from a list of levels, each with its
+ * Test helper: builds the sums that betaBinomialPriorWeight takes from a list of levels, each with its
  * row count nᵢ and positive count yᵢ — the same sums the engine computes in SQL. Levels with
  * zero rows are skipped (they carry no information and would divide by zero).
  *

@@ -1,13 +1,13 @@
 /**
- * engine/placeholderLevels: counts, per measured column, the rows whose level is spelled like a
+ * pipeline/placeholderLevels: step 1 of the advice pipeline, after the column figures — counts, per measured column, the rows whose level is spelled like a
  * missing value (profile/placeholders), from the level totals — a scan of the levels, not of the
  * rows; only the totals and the largest PLACEHOLDER_TOP such levels per column cross into
  * JavaScript. Sets ColumnProfile.placeholders where there are any.
  */
 import { placeholderEntrySql } from "../profile/placeholders.js";
 import type { ColumnProfile } from "../profile/types.js";
-import type { Engine } from "./db.js";
-import { LEVEL_TOTALS } from "./levels.js";
+import type { Engine } from "../engine/db.js";
+import { LEVEL_TOTALS } from "../engine/levels.js";
 
 export const PLACEHOLDER_TOP = 10;
 

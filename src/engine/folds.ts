@@ -1,0 +1,152 @@
+/**
+ * engine/folds: THE fold contract — how a row gets its fold, produced here, validated here once,
+ * turned into SQL here, written to the profile as `settings.fold` and read back by encode through
+ * `readFoldContract`. Nothing else decides a fold.
+ *
+ * Kinds (a union so later kinds slot in without touching the readers):
+ *  - "row-hash": a seeded hash of the row's full text (every column in `keyColumns`, in file
+ *    order) modulo k. Exact duplicate rows share a fold, so duplicates cannot leak across folds.
+ *  - "single": every row in fold 0 (a pass that needs no folds, e.g. encode --for scoring).
+ *  - "external": folds given by the user's own expression (tailsift sql --fold-expr, read back
+ *    by scan --levels); tailsift cannot reproduce them, so encode --for training refuses them.
+ *  - "grouped": a seeded hash of the text of the named key columns only (`--fold-by`), modulo k,
+ *    so every row of an entity (an owner, a patient) shares one fold; rows whose key is missing
+ *    form one entity of their own. Same formula as row-hash, over fewer columns.
+ * Room is left for time-ordered blocks.
+ */
+import { TailsiftError } from "../errors.js";
+import { quoteIdent, sqlNumber } from "./sql.js";
+
+/** The hash `row-hash` folds use (DuckDB's hash() of the row's text columns, seeded). */
+export const FOLD_HASH_NAME = "duckdb-hash-of-row-text";
+/** The hash `grouped` folds use (the same seeded hash, of the key columns' text only). */
+export const GROUPED_FOLD_HASH = "duckdb-hash-of-key-text";
+/** What `external` folds record as their hash. */
+export const EXTERNAL_FOLD_HASH = "the fold expression given to tailsift sql";
+
+export const DEFAULT_FOLD_COUNT = 5;
+export const DEFAULT_FOLD_SEED = 42;
+export const MAX_FOLD_COUNT = 100;
+
+export type FoldKind = "row-hash" | "grouped" | "single" | "external";
+
+export interface FoldContract {
+  kind: FoldKind;
+  /** How the fold is computed (FOLD_HASH_NAME for row-hash). */
+  hash: string;
+  seed: number;
+  /** Number of folds. */
+  k: number;
+  /** The columns the fold reads, in order (row-hash: every column of the input; grouped: the key). */
+  keyColumns: string[];
+}
+
+const bad = (message: string) => new TailsiftError("bad_option", message);
+
+/** The one check of a fold count (--folds): an integer from 2 to MAX_FOLD_COUNT. */
+export function checkFoldCount(k: number): number {
+  if (!Number.isInteger(k) || k < 2 || k > MAX_FOLD_COUNT) throw bad(`--folds must be an integer from 2 to ${MAX_FOLD_COUNT} (got ${k})`);
+  return k;
+}
+
+/** The one check of a fold seed (--seed). */
+export function checkFoldSeed(seed: number): number {
+  if (!Number.isInteger(seed)) throw bad(`--seed must be an integer (got ${seed})`);
+  return seed;
+}
+
+/** Row-hash folds over `keyColumns` (validated). */
+export function rowHashFolds(keyColumns: readonly string[], k: number, seed: number): FoldContract {
+  return { kind: "row-hash", hash: FOLD_HASH_NAME, seed: checkFoldSeed(seed), k: checkFoldCount(k), keyColumns: [...keyColumns] };
+}
+
+/**
+ * The one check of --fold-by: at least one column, each a column of the input, none twice, not
+ * the target. Returns the key columns in the order given.
+ * @throws TailsiftError `bad_option` / `unknown_column` with a one-line reason.
+ */
+export function checkFoldBy(keyColumns: readonly string[], inputColumns: readonly string[], target?: string): string[] {
+  const names = keyColumns.map((c) => c.trim());
+  if (names.length === 0 || names.some((c) => c === "")) throw bad("--fold-by needs one or more column names (comma-separated)");
+  for (const c of names) {
+    if (!inputColumns.includes(c)) throw new TailsiftError("unknown_column", `--fold-by: column '${c}' not found; columns are: ${inputColumns.join(", ")}`);
+    if (c === target) throw bad(`--fold-by: '${c}' is the target; group folds by an entity column, not by the target`);
+  }
+  const dup = names.find((c, i) => names.indexOf(c) !== i);
+  if (dup !== undefined) throw bad(`--fold-by names '${dup}' twice`);
+  return names;
+}
+
+/** Entity-grouped folds over the key columns (validated by checkFoldBy first). */
+export function groupedFolds(keyColumns: readonly string[], k: number, seed: number): FoldContract {
+  if (keyColumns.length === 0) throw bad("--fold-by needs one or more column names (comma-separated)");
+  return { kind: "grouped", hash: GROUPED_FOLD_HASH, seed: checkFoldSeed(seed), k: checkFoldCount(k), keyColumns: [...keyColumns] };
+}
+
+/** The fold kind in plain words, for the record. */
+export function foldKindText(fold: FoldContract): string {
+  switch (fold.kind) {
+    case "row-hash": return `row folds: a seeded hash of each row's text, ${fold.k} folds`;
+    case "grouped": return `entity-grouped folds by ${fold.keyColumns.join(", ")}: every row of an entity shares one of ${fold.k} folds, so out-of-fold figures are measured on entities the fit never saw`;
+    case "single": return "one fold (no out-of-fold figures)";
+    case "external": return `folds from the fold expression given to tailsift sql (${fold.k} folds)`;
+  }
+}
+
+/** Every row in fold 0. */
+export function singleFold(): FoldContract {
+  return { kind: "single", hash: "none", seed: 0, k: 1, keyColumns: [] };
+}
+
+/** Folds that came with level tables from the user's fold expression (k = largest fold + 1). */
+export function externalFolds(k: number, seed: number): FoldContract {
+  return { kind: "external", hash: EXTERNAL_FOLD_HASH, seed, k, keyColumns: [] };
+}
+
+/** The SQL text of a row-hash fold over `keyColumns` (the formula behind `foldSql`). */
+export function rowHashFoldSql(keyColumns: readonly string[], seed: number, k: number): string {
+  const cols = keyColumns.map(quoteIdent).join(", ");
+  return `(hash(${sqlNumber(Math.trunc(seed))}::BIGINT, ${cols}) % ${sqlNumber(k)})::INTEGER`;
+}
+
+/**
+ * The fold of a row as an SQL expression over the source view. scan's pass and encode both call
+ * this, so every row gets the same fold in both. External folds cannot be computed here.
+ */
+export function foldSql(fold: FoldContract): string {
+  switch (fold.kind) {
+    case "row-hash": return rowHashFoldSql(fold.keyColumns, fold.seed, fold.k);
+    case "grouped": return rowHashFoldSql(fold.keyColumns, fold.seed, fold.k);
+    case "single": return "0::INTEGER";
+    case "external": throw new TailsiftError("bad_plan", "these folds came from the fold expression given to tailsift sql and cannot be reproduced by tailsift");
+  }
+}
+
+const isStringList = (x: unknown): x is string[] => Array.isArray(x) && x.every((c) => typeof c === "string");
+
+/**
+ * The fold contract of a saved profile's settings, for encode --for training: settings.fold, or
+ * (profiles written before it) settings.foldColumns + folds + seed. Anything that cannot be
+ * reproduced — no contract, external folds, an unknown kind — is refused.
+ * @throws TailsiftError `bad_plan` with a one-line reason.
+ */
+export function readFoldContract(settings: { fold?: unknown; foldColumns?: unknown; folds?: unknown; seed?: unknown }): FoldContract {
+  const refuse = (why: string) => new TailsiftError("bad_plan", `${why}, so training folds cannot be reproduced; rescan the training extract`);
+  const f = settings.fold;
+  if (f !== undefined) {
+    const c = (typeof f === "object" && f !== null ? f : {}) as Record<string, unknown>;
+    if (c.kind === "external") throw refuse("the plan's folds came from the fold expression given to tailsift sql (settings.fold.kind is external)");
+    if (c.kind === "grouped" && c.hash === GROUPED_FOLD_HASH && isStringList(c.keyColumns) && c.keyColumns.length > 0
+      && typeof c.k === "number" && typeof c.seed === "number") return groupedFolds(c.keyColumns, c.k, c.seed);
+    if (c.kind !== "row-hash" || c.hash !== FOLD_HASH_NAME || !isStringList(c.keyColumns) || c.keyColumns.length === 0
+      || typeof c.k !== "number" || typeof c.seed !== "number") {
+      throw refuse("the plan's settings.fold is not a row-hash fold contract");
+    }
+    return rowHashFolds(c.keyColumns, c.k, c.seed);
+  }
+  const cols = settings.foldColumns;
+  if (!isStringList(cols) || cols.length === 0 || typeof settings.folds !== "number" || typeof settings.seed !== "number") {
+    throw refuse("the plan has no settings.fold (it was not made by scan over raw rows)");
+  }
+  return rowHashFolds(cols, settings.folds, settings.seed);
+}

@@ -1,0 +1,101 @@
+/**
+ * portableSql/planMaps: the scoring mappings of a plan, computed once in DuckDB by encode's own
+ * builders (encode/columnMaps in scoring mode, over the plan's levels.parquet, with an empty
+ * input level table so only the plan's levels are mapped), and read back as small key → value
+ * tables that the printed SQL looks up:
+ *  - frequency, codes, flat target encoding: `level` (level → value);
+ *  - backoff target encoding: `level` (seen level → its group's value), `group d` per parent
+ *    depth d ≥ 1 (parent text → group value; an unseen level takes its deepest parent that is a
+ *    group), and the "other" group's value (the prior p when no seen level is "other");
+ *  - hierarchical prior: `level`, `parent` (parent text → parent mean; an unseen parent → p);
+ *  - hashing of backoff groups: `level` (seen level → bucket, "other" → width) and `group d`.
+ * encode's mapping rules are not restated here: only its results are read.
+ */
+import type { Engine } from "../engine/db.js";
+import { groupsTable } from "../encode/backoffMaps.js";
+import { buildColumnMap } from "../encode/columnMaps.js";
+import { parentsTable } from "../encode/hierarchicalMaps.js";
+import { inputLevelsFromPlan, planLevels } from "../encode/levelTables.js";
+import { outputNames } from "../encode/names.js";
+import { planColumns } from "../encode/planColumns.js";
+import { fullTable, mapTable } from "../encode/targetMaps.js";
+import type { EncodedColumn } from "../encode/types.js";
+import type { ParentSpec } from "../hierarchy/types.js";
+import { TailsiftError } from "../errors.js";
+import type { Profile } from "../profile/types.js";
+
+export interface KeyValue { key: string; value: number }
+
+/** One lookup table of a column: its role, the parent it is keyed by (groups), and its rows. */
+export interface Lookup { role: string; parent?: ParentSpec; rows: KeyValue[] }
+
+export interface ScoringColumn {
+  column: EncodedColumn;
+  /** Today's output names of the column (encode/names). */
+  outputs: string[];
+  /** The level table first, then group tables deepest first, or the parent table. */
+  lookups: Lookup[];
+  /** What a non-missing level found in no table gets (p, the "other" value, or the width). */
+  fallback: number | null;
+  /** What a missing level gets. */
+  missing: number | null;
+}
+
+export type ScoringItem = { kind: "pass"; column: string } | { kind: "encoded"; scoring: ScoringColumn };
+
+async function keyValues(engine: Engine, table: string, key: string, value: string, where = "true"): Promise<KeyValue[]> {
+  const rows = await engine.rows<{ k: string; v: number }>(
+    `SELECT ${key} AS k, (${value})::DOUBLE AS v FROM ${table} WHERE ${key} IS NOT NULL AND ${where} ORDER BY k`, "reading a scoring mapping");
+  return rows.map((r) => ({ key: r.k, value: r.v }));
+}
+
+async function lookupsOf(engine: Engine, c: EncodedColumn, prior: number | null): Promise<Omit<ScoringColumn, "column" | "outputs">> {
+  const spec = c.spec;
+  const i = c.index;
+  if (spec.encoding === "frequency" || spec.encoding === "codes") {
+    return { lookups: [{ role: "level", rows: await keyValues(engine, mapTable(i), "level", "value") }], fallback: 0, missing: 0 };
+  }
+  if (spec.encoding === "hashing" && spec.grouping) {
+    const parents = spec.grouping.parents;
+    const groups: Lookup[] = [];
+    for (let d = parents.length; d >= 1; d--) {
+      groups.push({ role: `group ${d}`, parent: parents[d - 1]!, rows: await keyValues(engine, `(SELECT DISTINCT depth, group_key, bucket FROM ${fullTable(i)})`, "group_key", "bucket", `depth = ${d}`) });
+    }
+    return { lookups: [{ role: "level", rows: await keyValues(engine, fullTable(i), "level", "bucket") }, ...groups], fallback: spec.width, missing: null };
+  }
+  if (spec.encoding !== "target-kfold") return { lookups: [], fallback: null, missing: null };
+  if (prior === null) throw new TailsiftError("bad_plan", "the plan target-encodes a column but has no target; rescan with --target");
+  const level: Lookup = { role: "level", rows: await keyValues(engine, fullTable(i), "level", "value") };
+  if (!spec.structure) return { lookups: [level], fallback: prior, missing: prior };
+  if (spec.structure.kind === "hierarchical") {
+    return { lookups: [level, { role: "parent", parent: spec.structure.parent, rows: await keyValues(engine, parentsTable(i), "parent", "value") }], fallback: prior, missing: prior };
+  }
+  const parents = spec.structure.parents;
+  const groups: Lookup[] = [];
+  for (let d = parents.length; d >= 1; d--) {
+    groups.push({ role: `group ${d}`, parent: parents[d - 1]!, rows: await keyValues(engine, groupsTable(i), "group_key", "value", `depth = ${d}`) });
+  }
+  const [other] = await keyValues(engine, groupsTable(i), "group_key", "value", "depth < 0");
+  return { lookups: [level, ...groups], fallback: other?.value ?? prior, missing: prior };
+}
+
+/** The plan's output items in encode's order (scoring mode, every plan column present). */
+export async function scoringItems(engine: Engine, profile: Profile, levelsPath: string): Promise<ScoringItem[]> {
+  const inputColumns = profile.columns.map((c) => c.name);
+  const plan = planColumns(profile, inputColumns, { mode: "scoring", keep: [], keepOriginal: false, foldColumn: "fold" });
+  const names = plan.encoded.map((c) => c.name);
+  if (names.length > 0) {
+    await planLevels(engine, levelsPath, names);
+    await inputLevelsFromPlan(engine, levelsPath, []);
+  }
+  const prior = profile.target?.mean ?? null;
+  const items: ScoringItem[] = [];
+  for (const item of plan.outputs) {
+    if (item.kind === "pass") { items.push({ kind: "pass", column: item.column }); continue; }
+    if (item.kind !== "encoded") continue;
+    const c = item.column;
+    await buildColumnMap(engine, c, { mode: "scoring", leaveOneOut: false, folds: profile.settings.folds, targetMean: prior ?? undefined });
+    items.push({ kind: "encoded", scoring: { column: c, outputs: outputNames(c), ...(await lookupsOf(engine, c, prior)) } });
+  }
+  return items;
+}
