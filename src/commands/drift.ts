@@ -18,12 +18,11 @@ import { TailsiftError } from "../errors.js";
 import type { ColumnProfile, Profile } from "../profile/types.js";
 import { missingColumnDrift, presentColumnDrift, type TargetContext } from "../drift/columnDrift.js";
 import { nameNewLevels, newColumnStats, planColumnStats, topLevelRows, type NewStats } from "../drift/compareSql.js";
-import { loadPlanLevels, locatePlan } from "../drift/planFiles.js";
 import { overallTarget } from "../drift/overallTarget.js";
 import { worst } from "../drift/status.js";
 import { resolveThresholds } from "../drift/thresholds.js";
 import type { DriftReport, DriftTarget, DriftThresholds } from "../drift/types.js";
-import { readProfile } from "./scanCli.js";
+import { loadPlanLevels, readPlan } from "../plan/load.js";
 import { toolVersion } from "./scan.js";
 
 export type { DriftReport } from "../drift/types.js";
@@ -44,13 +43,12 @@ const NO_NEW: NewStats = { rows: 0, missing: 0, levels: 0, n_y: 0, sum_y: 0, sum
  */
 export async function drift(inputs: readonly string[], planPath: string, options: DriftOptions = {}): Promise<DriftReport> {
   const thresholds = resolveThresholds(options.thresholds);
-  const { profilePath, levelsPath } = locatePlan(planPath);
-  const profile = readProfile(profilePath);
+  const { profilePath, levelsPath, profile } = readPlan(planPath, "drift", true);
   const lockToPaths = options.lockToPaths ?? [...inputs, path.dirname(path.resolve(profilePath))];
   return withEngine({ ...options, lockToPaths }, async (engine) => {
     options.onEngine?.(engine);
     try {
-      await loadPlanLevels(engine, levelsPath);
+      await loadPlanLevels(engine, levelsPath, "drift");
       return await compare(engine, inputs, profile, profilePath, thresholds, options);
     } finally {
       options.onEngine?.(null);

@@ -12,24 +12,22 @@
  *    to a temporary file that is renamed into place with the mappings folder beside it.
  * Folds are the scan's: the plan's fold contract (engine/folds, readFoldContract) over the same text view.
  */
-import fs from "node:fs";
 import path from "node:path";
 import { foldSql, readFoldContract, singleFold } from "../engine/folds.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { describeFiles, openSource, type SourceOptions } from "../engine/source.js";
 import { planMissingLike } from "../engine/missingLike.js";
 import { TailsiftError } from "../errors.js";
-import { locatePlan } from "../drift/planFiles.js";
 import { writeOutput } from "../encode/writeOutput.js";
-import { outputFormat } from "../encode/outputFile.js";
-import { buildColumnMap, type ColumnMap } from "../encode/columnMaps.js";
-import { inputLevelsFromPass, inputLevelsFromPlan, planLevels } from "../encode/levelTables.js";
+import { mappingsDirFor, outputFormat } from "../encode/outputFile.js";
+import { encoderFor } from "../encode/encodings/registry.js";
+import { inputLevelsFromPass, inputLevelsFromPlan } from "../encode/levelTables.js";
 import { chooseLookup, prepareLookup, type LookupKind, type LookupRef } from "../encode/lookup.js";
 import { planColumns } from "../encode/planColumns.js";
 import { FOLD_FIELD, ref } from "../encode/expressions.js";
-import type { EncodeMode, EncodeSummary } from "../encode/types.js";
+import type { ColumnMap, EncodeMode, EncodeSummary } from "../encode/types.js";
 import type { Profile } from "../profile/types.js";
-import { readProfile } from "./scanCli.js";
+import { loadPlanLevels, readPlan } from "../plan/load.js";
 import { ensureOutputDir, refuseInputAsOutput } from "./output.js";
 
 export type { EncodeSummary } from "../encode/types.js";
@@ -50,6 +48,10 @@ export interface EncodeOptions extends EngineOptions, SourceOptions {
   leaveOneOut?: boolean;
   /** Training only: count level sums from the input even when it is the scanned extract. */
   recount?: boolean;
+  /** Keep today's raw output names (`clinic=Yarrowby Vets 24`) instead of safe ones (encode/safeNames). */
+  rawNames?: boolean;
+  /** CSV/TSV output: prefix text cells that a spreadsheet would run as a formula (default true; encode/cellGuard). */
+  cellGuard?: boolean;
   /** How mapped values are looked up (default auto: enum unless a mapping is very large). */
   lookup?: LookupKind | "auto";
   onEngine?: (engine: Engine | null) => void;
@@ -65,9 +67,9 @@ export async function encode(inputs: readonly string[], options: EncodeOptions):
   if (options.leaveOneOut && options.mode !== "training") throw new TailsiftError("bad_option", "--leave-one-out applies to --for training only");
   const foldColumn = options.foldColumn ?? "fold";
   if (foldColumn.trim() === "") throw new TailsiftError("bad_option", "--fold-column needs a name");
-  const { profilePath, levelsPath } = findPlan(options.plan);
-  const profile = readProfile(profilePath);
-  refuseInputAsOutput(options.out, [...inputs, profilePath, levelsPath]);
+  const { profilePath, levelsPath, profile } = readPlan(options.plan, "encode", true);
+  const mapsDir = mappingsDirFor(options.out);
+  refuseInputAsOutput(options.out, [...inputs, profilePath, levelsPath], [mapsDir]);
   outputFormat(options.out);
   ensureOutputDir(path.dirname(path.resolve(options.out)));
   // DuckDB may only touch the inputs, the plan's folder and the output's folder (plus its temp dir)
@@ -82,27 +84,19 @@ export async function encode(inputs: readonly string[], options: EncodeOptions):
   });
 }
 
-function findPlan(plan: string): { profilePath: string; levelsPath: string } {
-  try {
-    return locatePlan(plan);
-  } catch (err) {
-    if (err instanceof TailsiftError && err.code === "plan_without_levels") {
-      readProfile(fs.statSync(plan).isDirectory() ? path.join(plan, "profile.json") : plan); // not a profile: say that first
-      throw new TailsiftError(err.code, `plan '${plan}' has no levels.parquet beside profile.json; encode needs the level table that scan --out writes there (rescan with --out)`);
-    }
-    throw err;
-  }
-}
-
 async function encodeWith(engine: Engine, inputs: readonly string[], profile: Profile, levelsPath: string, o: EncodeOptions & { foldColumn: string }): Promise<EncodeSummary> {
   const source = await openSource(engine, inputs, { ...o, missingLike: planMissingLike(profile.settings.missingLike, o.missingLike, true) });
+  // globs and Parquet folders are expanded now: compare every file read with what is written
+  refuseInputAsOutput(o.out, source.files, [mappingsDirFor(o.out)]);
   const training = o.mode === "training";
-  const plan = planColumns(profile, source.columns, { mode: o.mode, keep: o.keep ?? [], keepOriginal: o.keepOriginal ?? false, foldColumn: o.foldColumn });
+  // the plan's fold contract, read once: the pass, the fold column and the manifest all use it
+  const folding = training ? readFoldContract(profile.settings) : singleFold();
+  const plan = planColumns(profile, source.columns, {
+    mode: o.mode, keep: o.keep ?? [], keepOriginal: o.keepOriginal ?? false, foldColumn: o.foldColumn, foldKeys: training ? folding.keyColumns : [],
+  });
   if (plan.names.length === 0) throw new TailsiftError("nothing_to_write", "the plan drops every column of the input; nothing to write (use --keep to pass columns through)");
   const names = plan.encoded.map((c) => c.name);
-  const folding = training ? readFoldContract(profile.settings) : singleFold();
   const folds = training ? folding.k : profile.settings.folds;
-  const foldExpr = training ? foldSql(folding) : null;
   const target = profile.target ? { column: profile.target.column, kind: profile.target.kind, ...(profile.target.positive !== undefined ? { positive: profile.target.positive } : {}) } : undefined;
   const targetEncoded = plan.encoded.some((c) => c.spec.encoding === "target-kfold");
   if (targetEncoded && !target) throw new TailsiftError("bad_plan", "the plan target-encodes a column but has no target; rescan with --target");
@@ -110,7 +104,7 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
 
   let levelSource: EncodeSummary["levelSource"] = "none";
   if (names.length > 0) {
-    await planLevels(engine, levelsPath, names);
+    await loadPlanLevels(engine, levelsPath, "encode", names);
     // The scanned extract itself (and read the same way): its level table is the plan's.
     if (source.fingerprint === profile.input.fingerprint && !o.recount && !o.skipBadRows) {
       await inputLevelsFromPlan(engine, levelsPath, names);
@@ -125,7 +119,7 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
 
   const maps = new Map<number, ColumnMap>();
   for (const column of plan.encoded) {
-    const map = await buildColumnMap(engine, column, { mode: o.mode, leaveOneOut: o.leaveOneOut ?? false, folds, targetMean: profile.target?.mean });
+    const map = await encoderFor(column).buildMap(engine, column, { mode: o.mode, leaveOneOut: o.leaveOneOut ?? false, folds, targetMean: profile.target?.mean });
     if (map) maps.set(column.index, map);
   }
   const lookup = o.lookup === undefined || o.lookup === "auto" ? await chooseLookup(engine, [...maps.values()].map((m) => m.table)) : o.lookup;
@@ -137,7 +131,8 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
   }
 
   return writeOutput(engine, {
-    plan, maps, lookups, lookup, levelSource, source, profile, options: o, foldExpr,
+    plan, maps, lookups, lookup, levelSource, source, profile, options: o, target,
+    folds: training ? { contract: folding, expr: foldSql(folding) } : null,
     looTarget: o.leaveOneOut && target ? target : undefined,
   });
 }

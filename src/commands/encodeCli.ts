@@ -19,6 +19,8 @@ interface EncodeCliOptions {
   keepOriginal?: boolean;
   leaveOneOut?: boolean;
   recount?: boolean;
+  rawNames?: boolean;
+  cellGuard: boolean;
   format: "table" | "json";
   memoryLimit?: string; threads?: number; tempDir?: string;
   skipBadRows?: boolean; encoding?: string; delimiter?: string; missingLike?: string[];
@@ -38,6 +40,8 @@ export function addEncodeCommand(program: Command, io: CliIO): void {
     .option("--keep <columns>", "pass these columns through untouched, e.g. keys and ids (comma-separated, repeatable)", list)
     .option("--keep-original", "also write each encoded column's text, as <column>__text")
     .option("--leave-one-out", "training: leave-one-out target encoding instead of out-of-fold")
+    .option("--raw-names", "keep the raw output names (clinic=Yarrowby Vets 24) instead of safe ones (clinic_Yarrowby_Vets_24)")
+    .option("--no-cell-guard", "CSV/TSV: write text cells starting with = + - @ (or tab, CR) as they are, without the ' prefix that keeps spreadsheets from running them; for machine-only pipelines")
     .option("--recount", "training: count level sums from the input even when it is the extract the plan was made from")
     .addOption(new Option("--format <format>", "summary format: table on stderr, or json on stdout").choices(["table", "json"]).default("table"));
   engineOptions(sourceOptions(cmd)).action(async (inputs: string[], o: EncodeCliOptions) => {
@@ -48,6 +52,7 @@ export function addEncodeCommand(program: Command, io: CliIO): void {
         plan: o.plan, out: o.out, mode: o.for, foldColumn: o.foldColumn,
         ...(o.keep ? { keep: o.keep } : {}), keepOriginal: o.keepOriginal ?? false,
         leaveOneOut: o.leaveOneOut ?? false, recount: o.recount ?? false,
+        rawNames: o.rawNames ?? false, cellGuard: o.cellGuard,
         memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
         skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter, missingLike: o.missingLike,
         onEngine: (e) => { progress.attach(e); io.onEngine?.(e); },

@@ -6,12 +6,9 @@ import fs from "node:fs";
 import path from "node:path";
 import { TailsiftError } from "../errors.js";
 
-/** Temporary files in flight, removed on interrupt. */
-export const pendingTemps = new Set<string>();
+import { pendingTemps, tempPathFor } from "../files/temp.js";
 
-export function tempPathFor(destination: string): string {
-  return path.join(path.dirname(destination), `.${path.basename(destination)}.${process.pid}.tmp`);
-}
+export { pendingTemps, tempPathFor };
 
 export function writeFileAtomic(destination: string, content: string): void {
   const tmp = tempPathFor(destination);
@@ -51,12 +48,49 @@ function makeDirs(dir: string): void {
   fs.mkdirSync(dir);
 }
 
-/** Refuses an output path that is one of the inputs (inputs are never modified). */
-export function refuseInputAsOutput(output: string, inputs: readonly string[]): void {
-  const out = path.resolve(output);
+/** Where a path leads: its real path and, when it exists, its device and inode. */
+interface FileIdentity { real: string; dev?: number; ino?: number }
+
+function identify(p: string): FileIdentity {
+  const abs = path.resolve(p);
+  try {
+    const st = fs.statSync(abs);
+    return { real: fs.realpathSync(abs), dev: st.dev, ino: st.ino };
+  } catch {
+    // not there (yet): the real path of the folder it would be written to, and its name
+    try {
+      return { real: path.join(fs.realpathSync(path.dirname(abs)), path.basename(abs)) };
+    } catch {
+      return { real: abs };
+    }
+  }
+}
+
+const sameFile = (a: FileIdentity, b: FileIdentity): boolean =>
+  a.real === b.real || (a.dev !== undefined && a.ino !== undefined && a.dev === b.dev && a.ino === b.ino);
+
+const inside = (folder: FileIdentity, file: FileIdentity): boolean => file.real.startsWith(`${folder.real}${path.sep}`);
+
+/**
+ * Refuses an output path that is one of the inputs (inputs are never modified). Inputs and the
+ * output are compared by resolved real path and by device and inode, so a symlink, a hard link or
+ * a relative spelling of an input is caught; give the expanded input files (globs and Parquet
+ * folders resolved) to catch those too. `folders` are output folders replaced as a whole (encode's
+ * mappings folder): an input inside one of them is refused as well.
+ * @throws TailsiftError `output_is_input`.
+ */
+export function refuseInputAsOutput(output: string, inputs: readonly string[], folders: readonly string[] = []): void {
+  const out = identify(output);
+  const dirs = folders.map(identify);
   for (const input of inputs) {
-    if (path.resolve(input) === out) {
-      throw new TailsiftError("output_is_input", `output '${output}' is also an input; inputs are never modified — choose another path`);
+    const id = identify(input);
+    if (sameFile(out, id)) {
+      const how = path.resolve(input) === path.resolve(output) ? "" : ` (through a link, a glob or a folder: '${input}')`;
+      throw new TailsiftError("output_is_input", `output '${output}' is also an input${how}; inputs are never modified — choose another path`);
+    }
+    const folder = folders.find((_, k) => sameFile(dirs[k]!, id) || inside(dirs[k]!, id));
+    if (folder !== undefined) {
+      throw new TailsiftError("output_is_input", `input '${input}' is inside '${folder}', which this run replaces; inputs are never modified — move it or choose another --out`);
     }
   }
 }

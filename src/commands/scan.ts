@@ -7,7 +7,7 @@ import { DEFAULT_POLICY, type AdvicePolicy } from "../advice/policy.js";
 import { buildLevelTable } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { checkFoldBy, groupedFolds, rowHashFolds, type FoldContract } from "../engine/folds.js";
-import { sampleColumns, sampleTargetValues } from "../engine/inspect.js";
+import { numberTypeOf, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
 import { normaliseMissingLike } from "../engine/missingLike.js";
 import { checkMeasuredWidth, countSkippedRows, describeFiles, openSource, type Source, type SourceOptions } from "../engine/source.js";
 import { resolveTarget, type TargetSpec } from "../engine/target.js";
@@ -120,6 +120,11 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
       ...(skippedRows !== undefined ? { skippedRows } : {}),
     },
   });
+  // the type encode writes each numeric column as (typed output, encode/passThrough)
+  for (const c of profile.columns) {
+    const sample = c.role === "numeric" ? samples.find((x) => x.name === c.name) : undefined;
+    if (sample) c.numberType = numberTypeOf(sample);
+  }
   await addFoldNotes(engine, source.view, profile, levelColumns, fold);
   profile.settings.fold = fold; // the contract encode reads back (engine/folds readFoldContract)
   return profile;

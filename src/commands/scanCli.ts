@@ -7,9 +7,9 @@ import path from "node:path";
 import type { Engine } from "../engine/db.js";
 import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
 import { TailsiftError } from "../errors.js";
-import { readProfile } from "../profile/readProfile.js";
+import { readPlan } from "../plan/load.js";
 import { validateProfile } from "../profile/schema.js";
-export { readProfile };
+export { readProfile } from "../profile/readProfile.js";
 import type { Encoding, Profile } from "../profile/types.js";
 import { redactProfile } from "../profile/redact.js";
 import { renderDecisionRecord } from "../render/markdown.js";
@@ -93,8 +93,8 @@ export async function writeReportFolder(profile: Profile, dir: string): Promise<
 
 
 export async function runReport(profilePath: string, out: string, io: IO): Promise<void> {
-  const profile = readProfile(profilePath);
-  refuseInputAsOutput(out, [profilePath]);
+  const { profile, profilePath: file } = readPlan(profilePath, "report", false);
+  refuseInputAsOutput(out, [file]);
   ensureOutputDir(path.dirname(path.resolve(out)));
   writeFileAtomic(out, await htmlReport(profile));
   io.stderr(`wrote ${out}\n`);

@@ -10,7 +10,7 @@ import { scoringQuery } from "../portableSql/scoringCommand.js";
 import { TailsiftError } from "../errors.js";
 
 /** The command's options: the query options, with --columns optional until checked. */
-type SqlCliOptions = Omit<LevelSqlOptions, "columns"> & { columns?: string[]; plan?: string; inlineMax?: number; mappingsOut?: string };
+type SqlCliOptions = Omit<LevelSqlOptions, "columns"> & { columns?: string[]; plan?: string; inlineMax?: number; mappingsOut?: string; rawNames?: boolean };
 
 /** Registers `tailsift sql` on the program. */
 export function addSqlCommand(program: Command, io: CliIO): void {
@@ -20,6 +20,7 @@ export function addSqlCommand(program: Command, io: CliIO): void {
     .option("--plan <dir>", "print the scoring SQL of this plan (profile.json + levels.parquet from scan --out) instead of the level-table SQL")
     .option("--inline-max <n>", "with --plan: mappings of at most N rows are inlined in the SQL (default 64); larger ones are tables to load", integer("--inline-max"))
     .option("--mappings-out <dir>", "with --plan: new folder for the CSV files (level,value) of the mapping tables that are not inlined")
+    .option("--raw-names", "with --plan: name the output columns as encode --raw-names does (clinic=Yarrowby Vets 24) instead of encode's safe names (clinic_Yarrowby_Vets_24)")
     .requiredOption("--from <table>", "the table to read: TABLE or db.schema.table (each part is quoted)")
     .option("--target <column>", "target column (binary or continuous)")
     .option("--positive <value>", "the target value that counts as 1; any other non-blank value is 0 (binary)")
@@ -33,11 +34,11 @@ export function addSqlCommand(program: Command, io: CliIO): void {
       if (opts.plan !== undefined) {
         const misplaced = [opts.columns ? "--columns" : "", opts.target ? "--target" : "", opts.positive ? "--positive" : "", opts.targetKind ? "--target-kind" : "", opts.foldExpr ? "--fold-expr" : "", opts.folds !== undefined ? "--folds" : "", opts.missingLike ? "--missing-like" : ""].filter((x) => x);
         if (misplaced.length > 0) throw new TailsiftError("bad_option", `${misplaced.join(", ")} do not apply with --plan: the plan says what is encoded`);
-        const { sql } = await scoringQuery({ plan: opts.plan, from: opts.from, dialect: opts.dialect, inlineMax: opts.inlineMax, mappingsOut: opts.mappingsOut });
+        const { sql } = await scoringQuery({ plan: opts.plan, from: opts.from, dialect: opts.dialect, inlineMax: opts.inlineMax, mappingsOut: opts.mappingsOut, rawNames: opts.rawNames });
         io.stdout(`${sql.trimEnd()};\n`);
         return;
       }
-      if (opts.inlineMax !== undefined || opts.mappingsOut !== undefined) throw new TailsiftError("bad_option", "--inline-max and --mappings-out apply with --plan");
+      if (opts.inlineMax !== undefined || opts.mappingsOut !== undefined || opts.rawNames) throw new TailsiftError("bad_option", "--inline-max, --mappings-out and --raw-names apply with --plan");
       const sql = levelSql({
         columns: opts.columns ?? [], from: opts.from, target: opts.target, positive: opts.positive,
         targetKind: opts.targetKind, foldExpr: opts.foldExpr, folds: opts.folds, dialect: opts.dialect,

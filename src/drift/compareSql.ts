@@ -6,7 +6,7 @@
 import { LEVEL_TABLE } from "../engine/aggregate.js";
 import type { Engine } from "../engine/db.js";
 import { quoteLiteral, sqlNumber } from "../engine/sql.js";
-import { PLAN_LEVELS } from "./planFiles.js";
+import { PLAN_LEVELS } from "../plan/load.js";
 
 export const NEW_LEVELS = "tailsift_new_levels";
 

@@ -12,10 +12,10 @@
  *    the other folds' prior — groupedSql's pred = (S_g − S_g,f + m·prior_f)/(N_g − N_g,f + m).
  */
 import type { Engine } from "../engine/db.js";
-import { mEstimateSql } from "../evidence/baseSql.js";
+import { mEstimateSql } from "../engine/formulaSql.js";
 import { groupTable } from "./groupMap.js";
 import { foldPriorTable, fullTable, mapTable } from "./targetMaps.js";
-import { levelFoldSumsSql, levelSumsSql, priorSql, weightSql } from "./structureSql.js";
+import { levelFoldSumsSql, levelSumsSql, priorSql, weightSql } from "./hierarchySql.js";
 
 export const groupsTable = (i: number): string => `tailsift_enc_groups_${i}`;
 

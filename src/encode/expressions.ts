@@ -1,5 +1,7 @@
 /**
- * encode/expressions: the SQL of each output column over the source row `s`. Fallbacks:
+ * encode/expressions: what the SQL of every output column shares — the source row `s`, the
+ * helper fields of the output query, and the lookup of a mapping. Each encoding's own column
+ * SQL lives in its module (encode/encodings/*); their fallbacks, in brief:
  *  - indicator: 1 for the level `one`, else 0 (missing and unseen → 0);
  *  - one-hot: `column=level` is 1 for that level; missing and unseen rows are all 0;
  *  - pooled one-hot: kept levels as one-hot, `column=other` is 1 for any other non-missing
@@ -15,12 +17,8 @@
  *  - target over a hierarchy (backoff, hierarchical prior): as target k-fold and scoring — the
  *    mapping covers every plan and input level, so only missing rows take the fallback.
  */
-import { bucketSql } from "../engine/hashing.js";
-import { mEstimateSql } from "../engine/formulaSql.js";
 import { quoteIdent, quoteLiteral } from "../engine/sql.js";
 import type { LookupRef } from "./lookup.js";
-import { foldPriorVar, priorVar, sqlDouble } from "./targetMaps.js";
-import type { EncodedColumn } from "./types.js";
 
 export const SOURCE_ALIAS = "s";
 export const FOLD_FIELD = "__tailsift_fold";
@@ -37,49 +35,14 @@ export interface ExprContext {
 }
 
 const literal = (v: string | null) => (v === null ? "NULL" : quoteLiteral(v));
-const is = (c: string, v: string | null) => `(${c} IS NOT DISTINCT FROM ${literal(v)})::INTEGER`;
-const variable = (name: string) => `getvariable(${quoteLiteral(name)})`;
+/** 1 when the level expression `c` is `v` (null = missing), else 0, as INTEGER. */
+export const isLevelSql = (c: string, v: string | null): string => `(${c} IS NOT DISTINCT FROM ${literal(v)})::INTEGER`;
+/** A DuckDB variable as SQL. */
+export const variableSql = (name: string): string => `getvariable(${quoteLiteral(name)})`;
 
-function lookupOf(column: EncodedColumn, ctx: ExprContext): LookupRef {
+/** The prepared lookup of a column's mapping (an Error when the caller did not prepare one). */
+export function lookupOf(column: { name: string }, ctx: ExprContext): LookupRef {
   if (!ctx.lookup) throw new Error(`column '${column.name}' has no prepared mapping`);
   return ctx.lookup;
 }
 
-/**
- * Target encoding; `m` is the flat weight (null: m = ∞, the prior; undefined: backoff or
- * hierarchical, no leave-one-out form).
- */
-function targetSql(column: EncodedColumn, m: number | null | undefined, ctx: ExprContext): string {
-  const look = lookupOf(column, ctx);
-  const p = variable(priorVar(column.index));
-  if (ctx.mode === "scoring") return `coalesce(${look.value("value")}, ${p})`;
-  if (!ctx.leaveOneOut) return `coalesce(${look.value("value")}, ${variable(foldPriorVar(column.index))}[${ref(FOLD_FIELD)} + 1])`;
-  if (m === undefined) throw new Error(`column '${column.name}' has no leave-one-out form`);
-  if (m === null) return p;
-  const n = `${look.value("n_y")}::DOUBLE`;
-  const s = look.value("sum_y");
-  const y = ref(Y_FIELD);
-  const mm = sqlDouble(m);
-  return `(CASE WHEN ${n} IS NULL THEN ${p}
-    WHEN ${y} IS NULL THEN ${mEstimateSql(s, n, mm, p)}
-    WHEN ${n} - 1 + ${mm} <= 0 THEN ${p}
-    ELSE (${s} - ${y} + ${mm} * ${p}) / (${n} - 1 + ${mm}) END)`;
-}
-
-/** The SQL expressions of one encoded column, aligned with names.outputNames(column). */
-export function columnSql(column: EncodedColumn, ctx: ExprContext): string[] {
-  const c = ref(column.name);
-  const spec = column.spec;
-  switch (spec.encoding) {
-    case "indicator": return [is(c, spec.one)];
-    case "one-hot": return spec.levels.map((l) => is(c, l));
-    case "pooled-one-hot": {
-      const notKept = spec.keep.length === 0 ? "" : ` AND ${c} NOT IN (${spec.keep.map(quoteLiteral).join(", ")})`;
-      return [...spec.keep.map((l) => is(c, l)), `(${c} IS NOT NULL${notKept})::INTEGER`];
-    }
-    case "hashing": return [spec.grouping ? `${lookupOf(column, ctx).value("bucket")}::BIGINT` : bucketSql(c, spec.width, spec.salt)];
-    case "frequency": return [`coalesce(${lookupOf(column, ctx).value("value")}, 0::DOUBLE)`];
-    case "codes": return [`coalesce(${lookupOf(column, ctx).value("value")}, 0)::BIGINT`];
-    case "target-kfold": return [targetSql(column, spec.structure ? undefined : spec.weight, ctx)];
-  }
-}

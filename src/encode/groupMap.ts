@@ -17,7 +17,7 @@ import { backoffMapSql } from "../hierarchy/backoff.js";
 import { parentSql } from "../hierarchy/parent.js";
 import type { ParentSpec } from "../hierarchy/types.js";
 import { PLAN_LEVELS } from "./levelTables.js";
-import { levelSetSql } from "./structureSql.js";
+import { levelSetSql } from "./hierarchySql.js";
 
 export const groupTable = (i: number): string => `tailsift_enc_group_${i}`;
 

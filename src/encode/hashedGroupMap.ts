@@ -15,11 +15,10 @@
 import type { Engine } from "../engine/db.js";
 import { bucketSql } from "../engine/hashing.js";
 import { sqlNumber } from "../engine/sql.js";
-import type { ColumnMap } from "./columnMaps.js";
 import { buildGroupMap, groupTable } from "./groupMap.js";
 import { mainFile } from "./mappingFiles.js";
 import { fullTable } from "./targetMaps.js";
-import type { HashGrouping } from "./types.js";
+import type { ColumnMap, HashGrouping } from "./types.js";
 
 /** SQL over the mapping row `m`: non-missing levels sent to "other" (the fallback rows). */
 export const hashedGroupFallbackCondition = "l.level IS NOT NULL AND m.depth < 0";

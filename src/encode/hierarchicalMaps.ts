@@ -15,11 +15,11 @@
  *    the plan's (fitted on all rows); the scorer refits them on each fold's other folds.
  */
 import type { Engine } from "../engine/db.js";
-import { mEstimateSql } from "../evidence/baseSql.js";
+import { mEstimateSql } from "../engine/formulaSql.js";
 import { parentSql } from "../hierarchy/parent.js";
 import type { ParentSpec } from "../hierarchy/types.js";
 import { foldPriorTable, fullTable, mapTable } from "./targetMaps.js";
-import { levelFoldSumsSql, levelSetSql, levelSumsSql, priorSql, weightSql } from "./structureSql.js";
+import { levelFoldSumsSql, levelSetSql, levelSumsSql, priorSql, weightSql } from "./hierarchySql.js";
 
 export const levelParentTable = (i: number): string => `tailsift_enc_lp_${i}`;
 export const parentsTable = (i: number): string => `tailsift_enc_parents_${i}`;

@@ -4,51 +4,28 @@
  * one row per encoded column, level and fold. It holds the training sums of an out-of-fold
  * encoding and the counts of the summary (missing, unseen, fallback rows). When the input is the
  * extract the plan was made from (same fingerprint), the plan's levels.parquet IS this table and
- * no pass is made; otherwise one GROUP BY pass (the scan's own query) builds it.
+ * no pass is made; otherwise one GROUP BY pass (the scan's own query) builds it. The plan's own
+ * level table (PLAN_LEVELS) is loaded by plan/load, the loader encode shares with drift.
  */
 import { buildLevelTable, LEVEL_TABLE } from "../engine/aggregate.js";
 import type { Engine } from "../engine/db.js";
 import type { FoldContract } from "../engine/folds.js";
 import { quoteLiteral, sqlNumber } from "../engine/sql.js";
+import { planLevelRowsSql } from "../plan/load.js";
 import type { TargetSpec } from "../engine/target.js";
 import { TailsiftError } from "../errors.js";
 
 export const INPUT_LEVELS = "tailsift_enc_input";
-/** The plan's level table for the encoded columns, summed over folds: (name, level, rows, n_y, sum_y). */
-export const PLAN_LEVELS = "tailsift_enc_plan";
+/** The plan's level table (plan/load): (name, level, rows, n_y, sum_y, sum_y2), summed over folds. */
+export { PLAN_LEVELS } from "../plan/load.js";
 
 const EMPTY = `SELECT NULL::VARCHAR AS name, NULL::VARCHAR AS level, 0::INTEGER AS fold, 0::DOUBLE AS rows, 0::DOUBLE AS n_y, 0::DOUBLE AS sum_y LIMIT 0`;
-
-const NEEDED = ["column", "level", "fold", "rows", "n_y", "sum_y"];
-
-/**
- * Loads the plan's levels.parquet, only the encoded columns (the file may also hold identifier
- * columns with millions of levels), summed over folds into PLAN_LEVELS.
- * @throws TailsiftError `bad_level_table` when the file lacks a needed field or any of `names`.
- */
-export async function planLevels(engine: Engine, levelsPath: string, names: readonly string[]): Promise<void> {
-  const doing = `reading the plan's level table '${levelsPath}'`;
-  const described = await engine.rows<{ column_name: string }>(`DESCRIBE SELECT * FROM read_parquet(${quoteLiteral(levelsPath)})`, doing);
-  const have = new Set(described.map((d) => d.column_name));
-  const lacking = NEEDED.filter((c) => !have.has(c));
-  if (lacking.length > 0) throw new TailsiftError("bad_level_table", `'${levelsPath}' is not a tailsift level table (no ${lacking.join(", ")}); rescan with scan --out`);
-  await engine.run(
-    `CREATE OR REPLACE TEMP TABLE ${PLAN_LEVELS} AS
-     SELECT "column" AS name, level, sum(rows)::BIGINT AS rows, sum(n_y)::BIGINT AS n_y, sum(sum_y)::DOUBLE AS sum_y
-     FROM read_parquet(${quoteLiteral(levelsPath)}) WHERE "column" IN (${names.map(quoteLiteral).join(", ")}) GROUP BY ALL`, doing);
-  const rows = await engine.rows<{ name: string }>(`SELECT DISTINCT name FROM ${PLAN_LEVELS}`, doing);
-  const found = new Set(rows.map((r) => r.name));
-  const absent = names.filter((n) => !found.has(n));
-  if (absent.length > 0) {
-    throw new TailsiftError("bad_level_table", `'${levelsPath}' has no levels of ${absent.map((n) => `'${n}'`).join(", ")}; it belongs to another scan — rescan with --out`);
-  }
-}
 
 /** Loads the plan's per-fold level table (levels.parquet) for `names` as the input's table. */
 export async function inputLevelsFromPlan(engine: Engine, levelsPath: string, names: readonly string[]): Promise<void> {
   const select = names.length === 0 ? EMPTY
     : `SELECT "column" AS name, level, fold::INTEGER AS fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y::DOUBLE AS sum_y
-       FROM read_parquet(${quoteLiteral(levelsPath)}) WHERE "column" IN (${names.map(quoteLiteral).join(", ")})`;
+       FROM (${planLevelRowsSql(levelsPath, names)})`;
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${INPUT_LEVELS} AS ${select}`, `reading the plan's level table '${levelsPath}'`);
 }
 

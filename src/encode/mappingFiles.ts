@@ -8,7 +8,7 @@
  *    a training run's target encoding adds `<column>.folds.parquet` (level, fold, n_other,
  *    sum_other, prior_other, value) — the out-of-fold values the training rows received;
  *    backoff adds `<column>.groups.parquet` (one row per group), the hierarchical prior
- *    `<column>.parents.parquet` (one row per parent) — see encode/structureMaps;
+ *    `<column>.parents.parquet` (one row per parent) — see encode/hierarchyMaps;
  *  - hashing of backoff groups: `<column>.parquet` (level, seen, rows, depth, group_key, bucket),
  *    one row per plan and input level, bucket 0..width − 1, or width for "other" — see
  *    encode/hashedGroupMap.

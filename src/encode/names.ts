@@ -1,10 +1,10 @@
 /**
- * encode/names: the names of the columns encode writes. An encoded column keeps its name; one-hot
- * writes `column=level` per level; pooled one-hot adds `column=other`; `--keep-original` writes
- * the text as `column__text`.
+ * encode/names: the raw names of the columns encode writes. An encoded column keeps its name;
+ * one-hot writes `column=level` per level (encode/encodings/oneHot); pooled one-hot adds
+ * `column=other`; `--keep-original` writes the text as `column__text`. Safe names are derived
+ * from these (encode/safeNames).
  */
 import { TailsiftError } from "../errors.js";
-import type { EncodedColumn } from "./types.js";
 
 /** Suffix of the text copy written by --keep-original. */
 export const TEXT_SUFFIX = "__text";
@@ -20,14 +20,6 @@ export function pooledLabel(keep: readonly string[], other: string): string {
   let label = other;
   while (keep.includes(label)) label = `${label}_`;
   return label;
-}
-
-/** The output column names of one encoded column, in output order. */
-export function outputNames(column: EncodedColumn): string[] {
-  const { name, spec } = column;
-  if (spec.encoding === "one-hot") return spec.levels.map((l) => `${name}=${l}`);
-  if (spec.encoding === "pooled-one-hot") return [...spec.keep, pooledLabel(spec.keep, spec.other)].map((l) => `${name}=${l}`);
-  return [name];
 }
 
 /**

@@ -6,7 +6,7 @@
 import { TailsiftError } from "../errors.js";
 import { HASH_NAME } from "../engine/hashing.js";
 import type { ColumnProfile } from "../profile/types.js";
-import { hashingGrouping, targetStructure } from "./structureParams.js";
+import { hashingGrouping, targetStructure } from "./hierarchyParams.js";
 import type { EncodingSpec } from "./types.js";
 
 function bad(column: string, what: string): TailsiftError {
@@ -37,7 +37,7 @@ function positiveInteger(column: string, value: unknown, name: string): number {
  * weight m ≥ 0 (0 = raw means, with the prior used where a level has no rows) or null (m = ∞, no
  * detectable spread: every level takes the prior); target-kfold with
  * `grouping: "backoff"` or `prior: "hierarchical"`, and hashing with `grouping: "backoff"` (the
- * advice for identifier-like nesting codes without a target), are read by encode/structureParams.
+ * advice for identifier-like nesting codes without a target), are read by encode/hierarchyParams.
  * @throws TailsiftError `bad_plan` for a missing or malformed parameter, an unknown encoding or
  *   grouping; `unsupported_plan` for a grouping on encodings other than target-kfold and hashing,
  *   or a hierarchical prior on one other than target-kfold.

@@ -2,18 +2,20 @@
  * encode/planColumns: decides, for every input column, what the output holds — the encoded
  * column(s), the column unchanged, or nothing — and checks that the plan fits the input.
  */
-import { readFoldContract } from "../engine/folds.js";
 import { TailsiftError } from "../errors.js";
-import type { Profile } from "../profile/types.js";
-import { checkUniqueNames, outputNames, textName } from "./names.js";
+import type { ColumnProfile, Profile } from "../profile/types.js";
+import { encoderFor } from "./encodings/registry.js";
+import { checkUniqueNames, textName } from "./names.js";
 import { encodingSpec } from "./params.js";
-import type { EncodedColumn, EncodeMode, OutputItem } from "./types.js";
+import type { EncodedColumn, EncodeMode, OutputItem, PassType } from "./types.js";
 
 export interface ColumnPlanOptions {
   mode: EncodeMode;
   keep: readonly string[];
   keepOriginal: boolean;
   foldColumn: string;
+  /** Training: the columns the plan's fold contract reads (engine/folds keyColumns); they must be in the input. */
+  foldKeys: readonly string[];
 }
 
 export interface ColumnPlan {
@@ -29,8 +31,23 @@ export interface ColumnPlan {
 const list = (names: readonly string[]) => names.map((n) => `'${n}'`).join(", ");
 
 /**
+ * How a passed-through column is written: `--keep` columns untouched (text), the target as its y,
+ * the plan's numeric columns as the type scan's sample recorded (double for older plans).
+ * Everything else is text as read: a time column (role time) too — it may hold rows that do not
+ * read as a time (scan counts them as unparsed), which a TIMESTAMP cast would refuse or null —
+ * and a numeric identifier, which the plan drops and `--keep` passes as text (a key, never a number to sum).
+ */
+function passType(name: string, kept: boolean, target: string | undefined, column: ColumnProfile | undefined): PassType {
+  if (kept) return "text";
+  if (name === target) return "target";
+  if (column?.role === "numeric") return column.numberType ?? "double";
+  return "text";
+}
+
+/**
  * Plans the output columns. Input columns the plan does not know are left out (unless --keep
- * names them); `--keep` wins over the plan; the target and numeric columns pass through.
+ * names them); `--keep` wins over the plan (and keeps the text); the target and numeric columns
+ * pass through typed (encode/passThrough).
  * @throws TailsiftError (exit 2): `unknown_column` for a --keep column not in the input,
  *   `target_missing` for training input without the plan's target, `plan_mismatch` when plan
  *   columns the run needs are absent (a plan made from another file), `name_clash`, `bad_plan`.
@@ -45,17 +62,18 @@ export function planColumns(profile: Profile, inputColumns: readonly string[], o
   }
   const specs = new Map(profile.columns.map((c) => [c.name, encodingSpec(c)]));
   const needed = new Set(profile.columns.filter((c) => c.name !== target && specs.get(c.name) !== "drop").map((c) => c.name));
-  if (o.mode === "training") for (const c of readFoldContract(profile.settings).keyColumns) needed.add(c);
+  if (o.mode === "training") for (const c of o.foldKeys) needed.add(c);
   const missing = [...needed].filter((c) => !present.has(c));
   if (missing.length > 0) {
     throw new TailsiftError("plan_mismatch", `the input lacks the plan's column${missing.length === 1 ? "" : "s"} ${list(missing.slice(0, 8))}${missing.length > 8 ? " …" : ""}; the plan was made from ${list(profile.input.paths.slice(0, 2))} — encode data with the same columns or rescan`);
   }
   const plan: ColumnPlan = { outputs: [], encoded: [], passedThrough: [], dropped: [], notInPlan: [], names: [] };
   const keep = new Set(o.keep);
+  const profiled = new Map(profile.columns.map((c) => [c.name, c]));
   for (const name of inputColumns) {
     const spec = specs.get(name);
     if (keep.has(name) || (spec !== undefined && (name === target || spec === "keep"))) {
-      plan.outputs.push({ kind: "pass", column: name });
+      plan.outputs.push({ kind: "pass", column: name, type: passType(name, keep.has(name), target, profiled.get(name)) });
       plan.passedThrough.push(name);
       plan.names.push(name);
     } else if (spec === undefined) {
@@ -66,7 +84,7 @@ export function planColumns(profile: Profile, inputColumns: readonly string[], o
       const column: EncodedColumn = { name, index: plan.encoded.length, spec };
       plan.encoded.push(column);
       plan.outputs.push({ kind: "encoded", column });
-      plan.names.push(...outputNames(column));
+      plan.names.push(...encoderFor(column).outputNames(column));
       if (o.keepOriginal) {
         plan.outputs.push({ kind: "text", column: name });
         plan.names.push(textName(name));

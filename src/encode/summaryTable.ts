@@ -35,6 +35,11 @@ export function renderEncodeSummary(s: EncodeSummary): string {
   if (s.columns.length > 0) lines.push(table.toString());
   for (const c of s.columns) if (c.grouping) lines.push(groupingLine(c.column, c.grouping));
   if (s.mode === "training" && s.levelSource !== "none") lines.push(`level sums from: ${s.levelSource}`);
+  const renamed = s.outputColumns.filter((c) => c.name !== c.rawName);
+  if (renamed.length > 0) {
+    const first = renamed[0]!;
+    lines.push(`${s.names === "safe" ? "safe names" : "guarded header cells"}: ${formatCount(renamed.length)} output column${renamed.length === 1 ? "" : "s"} renamed, e.g. '${first.rawName}' → '${first.name}'; the map is in mappings.json (output.map)`);
+  }
   if (s.passedThrough.length > 0) lines.push(`passed through: ${s.passedThrough.join(", ")}`);
   if (s.dropped.length > 0) lines.push(`dropped by the plan: ${s.dropped.join(", ")}`);
   if (s.notInPlan.length > 0) lines.push(`not in the plan, left out (--keep passes them through): ${s.notInPlan.join(", ")}`);

@@ -3,6 +3,7 @@
  * what the output holds, and the summary printed at the end.
  */
 import type { ParentSpec } from "../profile/hierarchyTypes.js";
+import type { MappingFile } from "./mappingFiles.js";
 import type { Encoding } from "../profile/types.js";
 
 export type EncodeMode = "training" | "scoring";
@@ -46,11 +47,53 @@ export interface EncodedColumn {
   spec: EncodingSpec;
 }
 
+/** How a passed-through column is written (encode/passThrough). */
+export type PassType = "text" | "integer" | "double" | "target";
+
+/** The mapping tables one column's encoding built (encode/encodings/*). */
+export interface ColumnMap {
+  /** The table the output query looks up (keyed by level, or by level and fold). */
+  table: string;
+  fields: string[];
+  perFold: boolean;
+  /** Tables written beside the output (see MappingFile). */
+  files: MappingFile[];
+  /** Backoff (target or hashing) / hierarchical: the per-level table the grouping counts read (encode/hierarchyCounts). */
+  levelTable?: string;
+}
+
+export interface MapContext {
+  mode: EncodeMode;
+  leaveOneOut: boolean;
+  folds: number;
+  /** The plan's target mean (p of the scoring mapping). */
+  targetMean: number | undefined;
+}
+
 /** One item of the output, in output order. */
 export type OutputItem =
-  | { kind: "pass"; column: string }
+  | { kind: "pass"; column: string; type: PassType }
   | { kind: "encoded"; column: EncodedColumn }
   | { kind: "text"; column: string };
+
+export type OutputSqlType = "INTEGER" | "BIGINT" | "DOUBLE" | "VARCHAR";
+
+/** One column of the output file (encode/outputColumns): the map from output name to (column, level). */
+export interface OutputColumn {
+  /** The name written (safe by default, raw with --raw-names). */
+  name: string;
+  /** Today's raw name: `column`, `column=level`, `column__text`, the fold column. */
+  rawName: string;
+  /** The input column it comes from (the fold column's own name for the fold). */
+  column: string;
+  kind: "encoded" | "pass" | "text" | "fold";
+  /** One-hot and pooled one-hot: the level this column is 1 for; indicator: the level `one`. */
+  level?: string | null;
+  /** Pooled one-hot: the column that is 1 for every other non-missing level. */
+  pooled?: true;
+  /** The type in Parquet (CSV writes the same values as text). */
+  type: OutputSqlType;
+}
 
 /** Per encoded column: where its rows went. Counts are rows of the encoded input. */
 export interface ColumnSummary {
@@ -102,6 +145,12 @@ export interface EncodeSummary {
   /** How mapped values were looked up: ENUM lists (no sort) or joins restored to input order. */
   lookup: "enum" | "join";
   columns: ColumnSummary[];
+  /** Every output column in order: written name → (column, level, type). */
+  outputColumns: OutputColumn[];
+  /** Whether names are safe (default) or raw (--raw-names). */
+  names: "safe" | "raw";
+  /** CSV/TSV: the prefix put before formula-like text cells, or null when off (or Parquet). */
+  cellGuard: string | null;
   /** Columns written unchanged (numeric, target, --keep). */
   passedThrough: string[];
   /** Plan columns dropped by the plan. */

@@ -6,25 +6,27 @@
  */
 import fs from "node:fs";
 import path from "node:path";
+import { pendingTemps, tempPathFor } from "../files/temp.js";
 import { toolVersion } from "../version.js";
-import { pendingTemps, tempPathFor } from "../commands/output.js";
 import type { Engine } from "../engine/db.js";
-import { readFoldContract } from "../engine/folds.js";
+import type { FoldContract } from "../engine/folds.js";
 import type { Source } from "../engine/source.js";
 import { quoteIdent, quoteLiteral } from "../engine/sql.js";
-import { targetSql, type TargetSpec } from "../engine/target.js";
-import type { Profile } from "../profile/types.js";
-import type { ColumnMap } from "./columnMaps.js";
+import { NEGATIVE_WORDS, POSITIVE_WORDS, targetSql, type TargetSpec } from "../engine/target.js";
+import type { Profile, ProfileTarget } from "../profile/types.js";
+import { CELL_GUARD_PREFIX, FORMULA_STARTS, guardCellSql } from "./cellGuard.js";
+import { outputColumns } from "./outputColumns.js";
+import { passSql, valueErrorOf } from "./passThrough.js";
 import { columnCounts, fallbackRule } from "./counts.js";
-import { columnSql, FOLD_FIELD, ref, ROW_FIELD, Y_FIELD } from "./expressions.js";
+import { encoderFor } from "./encodings/registry.js";
+import { FOLD_FIELD, ref, ROW_FIELD, Y_FIELD } from "./expressions.js";
 import type { LookupKind, LookupRef } from "./lookup.js";
 import { manifestEntry } from "./manifest.js";
 import { mappingBaseNames, writeManifest, writeMappingTable } from "./mappingFiles.js";
-import { outputNames, textName } from "./names.js";
-import { groupingCounts, groupingOf } from "./structureCounts.js";
+import { groupingCounts, groupingOf } from "./hierarchyCounts.js";
 import { commitDir, commitFile, mappingsDirFor, outputFormat } from "./outputFile.js";
 import type { ColumnPlan } from "./planColumns.js";
-import type { ColumnSummary, EncodeMode, EncodeSummary } from "./types.js";
+import type { ColumnMap, ColumnSummary, EncodeMode, EncodeSummary, OutputColumn } from "./types.js";
 
 export interface WriteContext {
   plan: ColumnPlan;
@@ -34,30 +36,33 @@ export interface WriteContext {
   levelSource: EncodeSummary["levelSource"];
   source: Source;
   profile: Profile;
-  options: { out: string; mode: EncodeMode; foldColumn: string; leaveOneOut?: boolean };
-  /** The fold expression (training) or null. */
-  foldExpr: string | null;
+  options: { out: string; mode: EncodeMode; foldColumn: string; leaveOneOut?: boolean; rawNames?: boolean; cellGuard?: boolean };
+  /** The plan's target (the pass-through target is written as its y). */
+  target: TargetSpec | undefined;
+  /** Training: the plan's fold contract (read once by commands/encode) and its SQL; null when scoring. */
+  folds: { contract: FoldContract; expr: string } | null;
   /** The target whose y the leave-one-out encoding reads, when used. */
   looTarget: TargetSpec | undefined;
 }
 
-/** The SELECT that produces the output, in input order. */
-export function outputQuery(ctx: WriteContext): string {
+/** The SELECT that produces the output, in input order, its columns named as `outputs` says. */
+export function outputQuery(ctx: WriteContext, outputs: readonly OutputColumn[]): string {
   const { plan, lookups, options: o } = ctx;
+  const csv = outputFormat(o.out).format === "csv";
+  const guard = csv && (o.cellGuard ?? true);
   const extras: string[] = [];
-  if (ctx.foldExpr) extras.push(`${ctx.foldExpr} AS ${quoteIdent(FOLD_FIELD)}`);
+  if (ctx.folds) extras.push(`${ctx.folds.expr} AS ${quoteIdent(FOLD_FIELD)}`);
   if (ctx.looTarget) extras.push(`${targetSql(ctx.looTarget).y} AS ${quoteIdent(Y_FIELD)}`);
   if (ctx.lookup === "join") extras.push(`row_number() OVER () AS ${quoteIdent(ROW_FIELD)}`);
-  const items: string[] = [];
+  const exprs: string[] = [];
   for (const item of plan.outputs) {
-    if (item.kind === "pass") items.push(`${ref(item.column)} AS ${quoteIdent(item.column)}`);
-    else if (item.kind === "text") items.push(`${ref(item.column)} AS ${quoteIdent(textName(item.column))}`);
-    else {
-      const exprs = columnSql(item.column, { mode: o.mode, leaveOneOut: o.leaveOneOut ?? false, lookup: lookups.get(item.column.index) ?? null });
-      outputNames(item.column).forEach((name, k) => items.push(`${exprs[k]} AS ${quoteIdent(name)}`));
-    }
+    if (item.kind === "pass") exprs.push(passSql(item.column, item.type, { csv, cellGuard: guard, target: ctx.target }));
+    else if (item.kind === "text") exprs.push(guard ? guardCellSql(ref(item.column)) : ref(item.column));
+    else exprs.push(...encoderFor(item.column).columnSql(item.column, { mode: o.mode, leaveOneOut: o.leaveOneOut ?? false, lookup: lookups.get(item.column.index) ?? null }));
   }
-  if (ctx.foldExpr) items.push(`${ref(FOLD_FIELD)} AS ${quoteIdent(o.foldColumn)}`);
+  if (ctx.folds) exprs.push(ref(FOLD_FIELD));
+  if (exprs.length !== outputs.length) throw new Error("output columns and expressions are not aligned");
+  const items = exprs.map((e, k) => `${e} AS ${quoteIdent(outputs[k]!.name)}`);
   const joins = [...lookups.values()].map((l) => l.join).filter((j): j is string => j !== null);
   const inner = `SELECT *${extras.map((e) => `, ${e}`).join("")} FROM ${ctx.source.view}`;
   const order = ctx.lookup === "join" ? `\nORDER BY ${ref(ROW_FIELD)}` : "";
@@ -75,11 +80,18 @@ export async function writeOutput(engine: Engine, ctx: WriteContext): Promise<En
   const bases = mappingBaseNames(plan.encoded.map((c) => c.name));
   const columns: ColumnSummary[] = [];
   const entries: Record<string, unknown>[] = [];
+  const guard = format.format === "csv" && (o.cellGuard ?? true);
+  const outputs = outputColumns(plan, { foldColumn: ctx.folds ? o.foldColumn : undefined, rawNames: o.rawNames ?? false, guardHeaders: guard, target: ctx.target });
   pendingTemps.add(tmp);
   try {
     if (ctx.lookup === "join") await engine.run("SET disabled_optimizers = 'build_side_probe_side'", "keeping mapping tables on the build side");
-    const [copied] = await engine.rows<{ Count: number }>(
-      `COPY (${outputQuery(ctx)}) TO ${quoteLiteral(tmp)} (${format.copyOptions})`, `writing '${o.out}'`);
+    let copied: { Count: number } | undefined;
+    try {
+      [copied] = await engine.rows<{ Count: number }>(
+        `COPY (${outputQuery(ctx, outputs)}) TO ${quoteLiteral(tmp)} (${format.copyOptions})`, `writing '${o.out}'`);
+    } catch (err) {
+      throw valueErrorOf(err) ?? err;
+    }
     fs.rmSync(tmpDir, { recursive: true, force: true });
     fs.mkdirSync(tmpDir);
     for (const column of plan.encoded) {
@@ -92,22 +104,23 @@ export async function writeOutput(engine: Engine, ctx: WriteContext): Promise<En
       }
       const rule = fallbackRule(column, o.mode, leaveOneOut);
       const counts = await columnCounts(engine, column, map, o.mode, leaveOneOut);
-      const outputs = outputNames(column);
+      const written = outputs.filter((x) => x.kind === "encoded" && x.column === column.name).map((x) => x.name);
       const structure = groupingOf(column.spec);
       const grouping = structure && map?.levelTable ? await groupingCounts(engine, column.name, structure, map.levelTable) : undefined;
       columns.push({
-        column: column.name, encoding: column.spec.encoding, outputs, ...counts, fallbackRule: rule,
+        column: column.name, encoding: column.spec.encoding, outputs: written, ...counts, fallbackRule: rule,
         ...(files.file ? { file: files.file } : {}), ...(grouping ? { grouping } : {}),
       });
-      entries.push(await manifestEntry(engine, column, outputs, files, rule, o.mode, leaveOneOut));
+      entries.push(await manifestEntry(engine, column, written, files, rule, o.mode, leaveOneOut));
     }
-    writeManifest(tmpDir, manifest(ctx, entries));
+    writeManifest(tmpDir, manifest(ctx, entries, outputs, guard));
     commitFile(tmp, o.out);
     commitDir(tmpDir, mapsDir);
     return {
       mode: o.mode, output: o.out, format: format.format, mappings: mapsDir, rows: copied?.Count ?? 0,
-      ...(ctx.foldExpr ? { foldColumn: o.foldColumn } : {}),
-      levelSource: ctx.levelSource, lookup: ctx.lookup, columns,
+      ...(ctx.folds ? { foldColumn: o.foldColumn } : {}),
+      levelSource: ctx.levelSource, lookup: ctx.lookup, columns, outputColumns: outputs,
+      names: o.rawNames ? "raw" : "safe", cellGuard: guard ? CELL_GUARD_PREFIX : null,
       passedThrough: plan.passedThrough, dropped: plan.dropped, notInPlan: plan.notInPlan,
     };
   } finally {
@@ -117,20 +130,32 @@ export async function writeOutput(engine: Engine, ctx: WriteContext): Promise<En
   }
 }
 
-const foldManifest = (column: string, f: { kind: string; k: number; seed: number; hash: string; keyColumns: string[] }) =>
+const foldManifest = (column: string, f: FoldContract) =>
   ({ column, k: f.k, seed: f.seed, hash: f.hash, identityColumns: f.keyColumns, ...(f.kind === "grouped" ? { kind: "grouped" } : {}) });
 
-function manifest(ctx: WriteContext, entries: Record<string, unknown>[]): Record<string, unknown> {
+function manifest(ctx: WriteContext, entries: Record<string, unknown>[], outputs: readonly OutputColumn[], guard: boolean): Record<string, unknown> {
   const { profile, options: o } = ctx;
   const t = profile.target;
+  const typedTarget = t ? outputs.find((x) => x.kind === "pass" && x.column === t.column && x.type !== "VARCHAR") : undefined;
   return {
     tool: { name: "tailsift", version: toolVersion() }, createdAt: new Date().toISOString(),
     mode: o.mode, leaveOneOut: o.leaveOneOut ?? false, levelSource: ctx.levelSource,
     plan: { paths: profile.input.paths, fingerprint: profile.input.fingerprint },
     input: { paths: ctx.source.files, fingerprint: ctx.source.fingerprint },
-    output: { file: path.basename(o.out), columns: ctx.plan.names },
-    ...(ctx.foldExpr ? { folds: foldManifest(o.foldColumn, readFoldContract(profile.settings)) } : {}),
-    ...(t ? { target: { column: t.column, kind: t.kind, positive: t.positive ?? null, mean: t.mean } } : {}),
+    output: {
+      file: path.basename(o.out), columns: outputs.map((x) => x.name),
+      names: o.rawNames ? "raw" : "safe", cellGuard: guard ? { prefix: CELL_GUARD_PREFIX, starts: FORMULA_STARTS } : null,
+      map: outputs,
+    },
+    ...(ctx.folds ? { folds: foldManifest(outputs.find((x) => x.kind === "fold")?.name ?? o.foldColumn, ctx.folds.contract) } : {}),
+    ...(t ? { target: { column: t.column, kind: t.kind, positive: t.positive ?? null, mean: t.mean, ...(typedTarget ? { output: targetOutput(t, typedTarget.name) } : {}) } } : {}),
     columns: entries,
   };
+}
+
+/** How the target is written: its output name, type and which values give 1 and 0. */
+function targetOutput(t: ProfileTarget, name: string): Record<string, unknown> {
+  if (t.kind === "continuous") return { name, type: "DOUBLE", value: "the number (trimmed); empty → NULL" };
+  if (t.positive !== undefined) return { name, type: "INTEGER", one: [t.positive], zero: "every other non-empty value", caseSensitive: true, value: "1 for the positive value (trimmed), else 0; empty → NULL" };
+  return { name, type: "INTEGER", one: POSITIVE_WORDS, zero: NEGATIVE_WORDS, caseSensitive: false, value: "1 / 0 by the words (trimmed, any case); empty → NULL" };
 }

@@ -29,16 +29,23 @@ export const NUMERIC_IDENTIFIER_SHARE = 0.99;
 /** Fewest non-missing rows before a numeric column can be called an identifier (a handful of distinct numbers is not a key). */
 export const NUMERIC_IDENTIFIER_MIN_ROWS = 100;
 
-const NUMBER_RE = "^-?(0|[1-9][0-9]*)(\\.[0-9]+)?([eE][-+]?[0-9]+)?$";
-const INTEGER_RE = "^-?(0|[1-9][0-9]*)$";
+/** A plain number as the sample accepts it (no sign other than '-', no leading zeros, no spaces). */
+export const PLAIN_NUMBER_RE = "^-?(0|[1-9][0-9]*)(\\.[0-9]+)?([eE][-+]?[0-9]+)?$";
+const NUMBER_RE = PLAIN_NUMBER_RE;
+/**
+ * A plain integer of at most 18 digits (always fits a signed 64-bit integer). One count serves both
+ * the numeric-identifier screen and encode's output type (numberTypeOf); a longer run of digits is
+ * not counted as an integer, so such a column is neither screened as an identifier nor written as BIGINT.
+ */
+const INTEGER_RE = "^-?(0|[1-9][0-9]{0,17})$";
 
 export interface ColumnSample {
   name: string;
   nonMissing: number;
   numberLike: number;
+  /** Sampled values that are plain integers (of at most 18 digits). */
+  integerLike: number;
   distinct: number;
-  /** Sampled values that are plain integers. */
-  integerLike?: number;
   /** Sampled values that read as a date or timestamp (engine/timeColumns). */
   timeLike?: number;
   /** Rows sampled (at most SAMPLE_ROWS). */
@@ -99,6 +106,11 @@ export function needsExactDistinct(sample: ColumnSample): boolean {
 /** Sampled values all integers, nearly all distinct: a numeric identifier candidate. */
 export function screensAsIdentifier(sample: ColumnSample): boolean {
   return sample.nonMissing > 0 && sample.integerLike === sample.nonMissing && sample.distinct >= NUMERIC_IDENTIFIER_SHARE * sample.nonMissing;
+}
+
+/** The type encode writes a numeric column as: integer when every sampled value is an integer. */
+export function numberTypeOf(sample: ColumnSample): "integer" | "double" {
+  return sample.integerLike === sample.nonMissing ? "integer" : "double";
 }
 
 /** Distinct non-empty target values in the sample, lower-cased and trimmed, at most `limit`. */

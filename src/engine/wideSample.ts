@@ -4,7 +4,8 @@
  * wide CSV is read (and sniffed) once instead of once per batch of 200 columns; values are first
  * grouped per (col, value), so the patterns are matched once per distinct value. The counts are the
  * ones inspect's batched query takes over the same LIMIT subquery: non-missing values, values that
- * match the number pattern, the integer pattern and the time forms (engine/timeColumns), distinct
+ * match the number pattern, the integer pattern (inspect's, at most 18 digits: also the integers
+ * encode may write as BIGINT) and the time forms (engine/timeColumns), distinct
  * values, and the rows sampled.
  */
 import type { Engine } from "./db.js";

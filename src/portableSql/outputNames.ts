@@ -1,10 +1,13 @@
 /**
- * portableSql/outputNames: the ONE place where the scoring SQL names its output columns. Today it
- * returns encode's raw names (`clinic=Yarrowby Vets 24`) so the SQL result equals `encode --for
- * scoring` column for column; when encode switches to safe names (encode/safeNames), this is the
- * function to route through them — every output name of portableSql/scoringSql passes here, in
- * output order, all at once (safe names are de-duplicated across the whole output).
+ * portableSql/outputNames: the ONE place where the scoring SQL names its output columns, with the
+ * names `tailsift encode --for scoring` writes: encode/safeNames's safe names by default
+ * (`clinic=Yarrowby Vets 24` → `clinic_Yarrowby_Vets_24`), the raw names with `--raw-names`
+ * (both commands take it). Every output name of portableSql/scoringSql passes here, in output
+ * order, all at once: safe names are de-duplicated across the whole output, as encode does
+ * (encode/outputColumns).
  */
-export function scoringOutputNames(raw: readonly string[]): string[] {
-  return [...raw];
+import { safeOutputNames } from "../encode/safeNames.js";
+
+export function scoringOutputNames(raw: readonly string[], rawNames: boolean): string[] {
+  return rawNames ? [...raw] : safeOutputNames(raw);
 }

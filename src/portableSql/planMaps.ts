@@ -1,6 +1,6 @@
 /**
  * portableSql/planMaps: the scoring mappings of a plan, computed once in DuckDB by encode's own
- * builders (encode/columnMaps in scoring mode, over the plan's levels.parquet, with an empty
+ * builders (each encoding's module, encode/encodings/registry, in scoring mode, over the plan's levels.parquet, with an empty
  * input level table so only the plan's levels are mapped), and read back as small key → value
  * tables that the printed SQL looks up:
  *  - frequency, codes, flat target encoding: `level` (level → value);
@@ -13,14 +13,14 @@
  */
 import type { Engine } from "../engine/db.js";
 import { groupsTable } from "../encode/backoffMaps.js";
-import { buildColumnMap } from "../encode/columnMaps.js";
+import { encoderFor } from "../encode/encodings/registry.js";
 import { parentsTable } from "../encode/hierarchicalMaps.js";
-import { inputLevelsFromPlan, planLevels } from "../encode/levelTables.js";
-import { outputNames } from "../encode/names.js";
+import { inputLevelsFromPlan } from "../encode/levelTables.js";
 import { planColumns } from "../encode/planColumns.js";
 import { fullTable, mapTable } from "../encode/targetMaps.js";
 import type { EncodedColumn } from "../encode/types.js";
-import type { ParentSpec } from "../hierarchy/types.js";
+import { loadPlanLevels } from "../plan/load.js";
+import type { ParentSpec } from "../profile/hierarchyTypes.js";
 import { TailsiftError } from "../errors.js";
 import type { Profile } from "../profile/types.js";
 
@@ -31,7 +31,7 @@ export interface Lookup { role: string; parent?: ParentSpec; rows: KeyValue[] }
 
 export interface ScoringColumn {
   column: EncodedColumn;
-  /** Today's output names of the column (encode/names). */
+  /** The column's raw output names (its encoding module's; safe names are made from them: portableSql/outputNames). */
   outputs: string[];
   /** The level table first, then group tables deepest first, or the parent table. */
   lookups: Lookup[];
@@ -82,10 +82,10 @@ async function lookupsOf(engine: Engine, c: EncodedColumn, prior: number | null)
 /** The plan's output items in encode's order (scoring mode, every plan column present). */
 export async function scoringItems(engine: Engine, profile: Profile, levelsPath: string): Promise<ScoringItem[]> {
   const inputColumns = profile.columns.map((c) => c.name);
-  const plan = planColumns(profile, inputColumns, { mode: "scoring", keep: [], keepOriginal: false, foldColumn: "fold" });
+  const plan = planColumns(profile, inputColumns, { mode: "scoring", keep: [], keepOriginal: false, foldColumn: "fold", foldKeys: [] });
   const names = plan.encoded.map((c) => c.name);
   if (names.length > 0) {
-    await planLevels(engine, levelsPath, names);
+    await loadPlanLevels(engine, levelsPath, "sql", names);
     await inputLevelsFromPlan(engine, levelsPath, []);
   }
   const prior = profile.target?.mean ?? null;
@@ -94,8 +94,8 @@ export async function scoringItems(engine: Engine, profile: Profile, levelsPath:
     if (item.kind === "pass") { items.push({ kind: "pass", column: item.column }); continue; }
     if (item.kind !== "encoded") continue;
     const c = item.column;
-    await buildColumnMap(engine, c, { mode: "scoring", leaveOneOut: false, folds: profile.settings.folds, targetMean: prior ?? undefined });
-    items.push({ kind: "encoded", scoring: { column: c, outputs: outputNames(c), ...(await lookupsOf(engine, c, prior)) } });
+    await encoderFor(c).buildMap(engine, c, { mode: "scoring", leaveOneOut: false, folds: profile.settings.folds, targetMean: prior ?? undefined });
+    items.push({ kind: "encoded", scoring: { column: c, outputs: encoderFor(c).outputNames(c), ...(await lookupsOf(engine, c, prior)) } });
   }
   return items;
 }

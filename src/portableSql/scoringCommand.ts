@@ -7,10 +7,9 @@
 import fs from "node:fs";
 import path from "node:path";
 import { withEngine } from "../engine/db.js";
-import { locatePlan } from "../drift/planFiles.js";
 import { planMissingLike } from "../engine/missingLike.js";
 import { TailsiftError } from "../errors.js";
-import { readProfile } from "../profile/readProfile.js";
+import { readPlan } from "../plan/load.js";
 import { dialectOf, type DialectName } from "./dialects.js";
 import { scoringItems } from "./planMaps.js";
 import { DEFAULT_INLINE_MAX, scoringSql, type MappingTable } from "./scoringSql.js";
@@ -23,6 +22,8 @@ export interface ScoringQueryOptions {
   inlineMax?: number;
   /** Folder (new) for the CSV files of the tables that are not inlined. */
   mappingsOut?: string;
+  /** Name the output columns with encode's raw names (as `encode --raw-names`) instead of its safe names. */
+  rawNames?: boolean;
 }
 
 const csvField = (s: string) => `"${s.replaceAll('"', '""')}"`;
@@ -47,11 +48,10 @@ function writeMappingFiles(dir: string, tables: readonly MappingTable[]): void {
 export async function scoringQuery(o: ScoringQueryOptions): Promise<{ sql: string; tables: MappingTable[] }> {
   const inlineMax = o.inlineMax ?? DEFAULT_INLINE_MAX;
   if (!Number.isInteger(inlineMax) || inlineMax < 0) throw new TailsiftError("bad_option", `--inline-max must be a whole number ≥ 0 (got ${inlineMax})`);
-  const { profilePath, levelsPath } = locatePlan(o.plan);
-  const profile = readProfile(profilePath);
+  const { levelsPath, profile } = readPlan(o.plan, "sql", true);
   const items = await withEngine({ threads: 1, lockToPaths: [path.dirname(path.resolve(levelsPath))] }, (engine) => scoringItems(engine, profile, levelsPath));
   const missingLike = planMissingLike(profile.settings.missingLike, undefined, false);
-  const result = scoringSql(items, { from: o.from, dialect: dialectOf(o.dialect), inlineMax, missingLike });
+  const result = scoringSql(items, { from: o.from, dialect: dialectOf(o.dialect), inlineMax, missingLike, rawNames: o.rawNames ?? false });
   if (result.tables.length > 0) {
     if (o.mappingsOut === undefined) {
       const t = result.tables[0]!;

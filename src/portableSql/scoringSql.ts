@@ -24,9 +24,13 @@ import type { ScoringColumn, ScoringItem } from "./planMaps.js";
 export const DEFAULT_INLINE_MAX = 64;
 
 export interface ScoringSqlOptions {
-  from: string; dialect: Dialect; inlineMax: number;
+  from: string;
+  dialect: Dialect;
+  inlineMax: number;
   /** The plan's --missing-like values (normalised); absent or empty: none. */
   missingLike?: readonly string[];
+  /** encode's raw output names (`encode --raw-names`) instead of its safe names. */
+  rawNames?: boolean;
 }
 
 export interface MappingTable extends LookupTable { column: string; role: string }
@@ -96,7 +100,7 @@ export function scoringSql(items: readonly ScoringItem[], o: ScoringSqlOptions):
     exprs.push(...encodedSql(d, item.scoring, tables, missingLike));
     raw.push(...item.scoring.outputs);
   }
-  const names = scoringOutputNames(raw);
+  const names = scoringOutputNames(raw, o.rawNames ?? false);
   const load = all.filter((t) => !t.inline);
   const header = [
     `-- tailsift scoring query (${d.name}): the plan's scoring encodings, as tailsift encode --for scoring applies them`,

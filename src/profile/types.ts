@@ -92,6 +92,8 @@ export interface ColumnTargetFigures {
 export interface ColumnProfile {
   name: string;
   role: ColumnRole;
+  /** Numeric columns: the type encode writes (scan's sample: integer when every value is a plain integer). */
+  numberType?: "integer" | "double";
   rows: number;
   missing: number;
   distinct: number;

@@ -11,8 +11,8 @@ import { describe, expect, it } from "vitest";
 
 /** Lowest first. A layer is a folder of src/ or a single file at its root. */
 export const LAYERS: readonly string[] = [
-  "errors.ts", "version.ts",
-  "stats", "engine", "profile", "advice", "hierarchy", "evidence", "pipeline", "render", "drift", "encode", "portableSql",
+  "errors.ts", "version.ts", "files",
+  "stats", "engine", "profile", "plan", "advice", "hierarchy", "evidence", "pipeline", "render", "drift", "encode", "portableSql",
   "commands", "cli.ts", "index.ts",
 ];
 
@@ -20,14 +20,9 @@ export const LAYERS: readonly string[] = [
  * Known edges that break the rule, each owned by a change in progress elsewhere; this list may
  * only shrink. An entry is "from -> to" (files relative to src/).
  */
-const KNOWN: ReadonlySet<string> = new Set([
-  // encode writes its output through commands/output (temp file + rename); moves with the plan-folder work
-  "encode/writeOutput.ts -> commands/output.ts",
-]);
+const KNOWN: ReadonlySet<string> = new Set<string>();
 /** Known circles (files, sorted, space-separated), owned by the encode reorganisation; may only shrink. */
-const KNOWN_CIRCLES: ReadonlySet<string> = new Set([
-  "encode/columnMaps.ts encode/hashedGroupMap.ts encode/structureMaps.ts",
-]);
+const KNOWN_CIRCLES: ReadonlySet<string> = new Set<string>();
 /** Files known to be over 300 lines, owned by a change in progress elsewhere; may only shrink. */
 const KNOWN_LONG: ReadonlySet<string> = new Set([
   "engine/source.ts", // the input layer, being split by the source/CLI-errors work

@@ -12,6 +12,7 @@ import { encode } from "../../src/commands/encode.js";
 import { rowHashFoldSql as foldSql } from "../../src/engine/folds.js";
 import { withEngine } from "../../src/engine/db.js";
 import { openSource } from "../../src/engine/source.js";
+import { safeName } from "../../src/encode/safeNames.js";
 import type { EncodeSummary } from "../../src/encode/types.js";
 import type { Profile } from "../../src/profile/types.js";
 import { tempDir, writeFile } from "../helpers/tmp.js";
@@ -28,6 +29,8 @@ const planDir = path.join(dir, "plan");
 const M = 7.5;
 let profile: Profile;
 
+/** The written name of a one-hot column (safe names are the default: encode/safeNames). */
+const oh = (col: string, level: string) => safeName(`${col}=${level}`);
 const ys = (csv: Csv) => column(csv, "y").map((v) => (v === null ? null : Number(v)));
 const read = (file: string) => parseCsv(fs.readFileSync(file, "utf8"));
 const params = (name: string) => profile.columns.find((c) => c.name === name)!.recommendation.params;
@@ -51,11 +54,11 @@ beforeAll(async () => {
 function checkCommon(enc: Csv, src: Csv): void {
   const lv = (n: string) => column(src, n);
   const colours = params("colour").levels as string[];
-  bf.oneHot(lv("colour"), colours).forEach((vec, k) => expect(column(enc, `colour=${colours[k]}`).map(Number)).toEqual(vec));
+  bf.oneHot(lv("colour"), colours).forEach((vec, k) => expect(column(enc, oh("colour", colours[k]!)).map(Number)).toEqual(vec));
   const keep = params("size").keep as string[];
   expect(keep.length).toBeGreaterThan(1);
-  bf.oneHot(lv("size"), keep).forEach((vec, k) => expect(column(enc, `size=${keep[k]}`).map(Number)).toEqual(vec));
-  expect(column(enc, "size=other").map(Number)).toEqual(bf.pooledOther(lv("size"), keep));
+  bf.oneHot(lv("size"), keep).forEach((vec, k) => expect(column(enc, oh("size", keep[k]!)).map(Number)).toEqual(vec));
+  expect(column(enc, oh("size", "other")).map(Number)).toEqual(bf.pooledOther(lv("size"), keep));
   expect(column(enc, "member").map(Number)).toEqual(bf.indicator(lv("member"), params("member").one as string));
   expect(column(enc, "street")).toEqual(lv("street").map((l) => (l === null ? null : String(md5Bucket(l, 8, "k")))));
   close(column(enc, "brand"), bf.frequency(column(train, "brand"), lv("brand")));
@@ -83,7 +86,7 @@ describe("encode --for training against brute force", () => {
     const enc = read(out);
     const colours = params("colour").levels as string[];
     const keep = params("size").keep as string[];
-    expect(enc.header).toEqual(["id", "shop", ...colours.map((c) => `colour=${c}`), ...keep.map((k) => `size=${k}`), "size=other",
+    expect(enc.header).toEqual(["id", "shop", ...colours.map((c) => oh("colour", c)), ...keep.map((k) => oh("size", k)), oh("size", "other"),
       "member", "street", "brand", "grade", "amount", "y", "fold"]);
     checkCommon(enc, train);
     expect(column(enc, "y")).toEqual(column(train, "y"));

@@ -11,6 +11,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { withEngine, type Engine } from "../../src/engine/db.js";
 import { quoteIdent, quoteLiteral } from "../../src/engine/sql.js";
 import type { EncodeSummary } from "../../src/encode/types.js";
+import { expectCliError } from "../helpers/cliError.js";
 import { tempDir } from "../helpers/tmp.js";
 import { cli } from "../levels/helpers.js";
 import { expectSameRows, loadExtract } from "./data.js";
@@ -84,6 +85,28 @@ describe("scoring SQL in DuckDB equals encode --for scoring", () => {
       return runScoring(e, r.out);
     });
     expectSameRows(actual, expected, outputColumns, "id");
+  });
+
+  it("names its columns as encode does: safe names by default, the raw ones with --raw-names on both", async () => {
+    // safe names (encode/safeNames, docs/references.md "encode output"): the one-hot and pooled columns are renamed
+    expect(outputColumns.every((n) => /^[A-Za-z_][A-Za-z0-9_]*$/.test(n)), outputColumns.join(", ")).toBe(true);
+    expect(outputColumns).toEqual(expect.arrayContaining(["channel_web", "reason_it_s_an_emergency", "reason_other"]));
+    const enc = await cli(["encode", at("later.csv"), "--plan", at("plan"), "--out", at("encoded-raw.parquet"), "--for", "scoring", "--raw-names", "--format", "json", "--no-progress"]);
+    expect(enc.code, enc.err).toBe(0);
+    const r = await cli(["sql", "--plan", at("plan"), "--from", "later", "--inline-max", "100000", "--raw-names"]);
+    expect(r.code, r.err).toBe(0);
+    await withEngine({ threads: 1 }, async (e) => {
+      const file = quoteLiteral(at("encoded-raw.parquet"));
+      const rawColumns = (await e.rows<{ column_name: string }>(`DESCRIBE SELECT * FROM read_parquet(${file})`, "describe")).map((x) => x.column_name);
+      expect(rawColumns).toEqual(expect.arrayContaining(["channel=web", "reason=it's an emergency", "reason=other"]));
+      const actual = await runScoring(e, r.out);
+      expect(Object.keys(actual[0]!)).toEqual(rawColumns);
+      expectSameRows(actual, await e.rows(`SELECT * FROM read_parquet(${file})`, "reading encode's output"), rawColumns, "id");
+    });
+  });
+
+  it("refuses --raw-names without --plan (exit 2, bad_option, one line)", async () => {
+    await expectCliError(["sql", "--columns", "clinic", "--from", "later", "--raw-names"], "bad_option", /--raw-names apply with --plan/);
   });
 
   it("refuses a mapping larger than --inline-max without --mappings-out (exit 2, one line)", async () => {

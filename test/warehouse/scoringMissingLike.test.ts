@@ -2,7 +2,8 @@
  * A plan scanned with --missing-like reads those values as missing in every column; the scoring
  * SQL (`tailsift sql --plan`) must do the same as `tailsift encode --for scoring` (differential
  * test, encode is the reference), in DuckDB with the ansi dialect: "Unknown" spellings in encoded
- * columns take the missing value, and in the passed-through id column they become NULL.
+ * columns take the missing value, and in the passed-through id column they become NULL — with
+ * encode's safe output names and with --raw-names alike.
  */
 import fs from "node:fs";
 import path from "node:path";
@@ -44,21 +45,28 @@ describe("scoring SQL of a --missing-like plan equals encode --for scoring", () 
     expect(profile.settings.missingLike).toEqual(["unknown"]);
     // the levels were counted without the unknowns
     expect(profile.columns.find((c) => c.name === "breed")!.topLevels.some((l) => l.value?.trim().toLowerCase() === "unknown")).toBe(false);
-    const enc = await cli(["encode", at("later.csv"), "--plan", at("plan"), "--out", at("encoded.parquet"), "--for", "scoring", "--no-progress", "--quiet"]);
-    expect(enc.code, enc.err).toBe(0);
-    const sql = await cli(["sql", "--plan", at("plan"), "--from", "later", "--inline-max", "100000"]);
-    expect(sql.code, sql.err).toBe(0);
-    expect(sql.out).toContain("'unknown'");
-    await withEngine({ threads: 1 }, async (e) => {
-      const file = quoteLiteral(at("encoded.parquet"));
-      const expected = await e.rows<Record<string, unknown>>(`SELECT row_number() OVER () - 1 AS __row, * FROM read_parquet(${file})`, "reading encode's output");
-      const columns = (await e.rows<{ column_name: string }>(`DESCRIBE SELECT * FROM read_parquet(${file})`, "describe")).map((r) => r.column_name);
-      await loadExtract(e, at("later.csv"), "later");
-      const actual = await e.rows<Record<string, unknown>>(`SELECT row_number() OVER () - 1 AS __row, * FROM (${sql.out.trim().replace(/;$/, "")})`, "running the scoring SQL");
-      expect(columns).toContain("id");
-      // encode wrote NULL for the 'unknown' ids, and so does the SQL
-      expect(expected.filter((r) => r.id === null).length).toBeGreaterThan(5);
-      expectSameRows(actual, expected, columns, "__row");
-    });
+    // both naming modes: encode's safe names (the default) and --raw-names, given to both commands
+    for (const names of [[], ["--raw-names"]]) {
+      const out = at(`encoded${names.length}.parquet`);
+      const enc = await cli(["encode", at("later.csv"), "--plan", at("plan"), "--out", out, "--for", "scoring", ...names, "--no-progress", "--quiet"]);
+      expect(enc.code, enc.err).toBe(0);
+      const sql = await cli(["sql", "--plan", at("plan"), "--from", "later", "--inline-max", "100000", ...names]);
+      expect(sql.code, sql.err).toBe(0);
+      expect(sql.out).toContain("'unknown'");
+      await withEngine({ threads: 1 }, async (e) => {
+        const file = quoteLiteral(out);
+        const expected = await e.rows<Record<string, unknown>>(`SELECT row_number() OVER () - 1 AS __row, * FROM read_parquet(${file})`, "reading encode's output");
+        const columns = (await e.rows<{ column_name: string }>(`DESCRIBE SELECT * FROM read_parquet(${file})`, "describe")).map((r) => r.column_name);
+        await loadExtract(e, at("later.csv"), "later");
+        const actual = await e.rows<Record<string, unknown>>(`SELECT row_number() OVER () - 1 AS __row, * FROM (${sql.out.trim().replace(/;$/, "")})`, "running the scoring SQL");
+        expect(columns).toContain("id");
+        // the naming mode is the one asked for: some raw name has a character outside [A-Za-z0-9_]
+        expect(columns.some((c) => /[^A-Za-z0-9_]/.test(c))).toBe(names.length > 0);
+        expect(Object.keys(actual[0]!).filter((k) => k !== "__row")).toEqual(columns);
+        // encode wrote NULL for the 'unknown' ids, and so does the SQL
+        expect(expected.filter((r) => r.id === null).length).toBeGreaterThan(5);
+        expectSameRows(actual, expected, columns, "__row");
+      });
+    }
   }, 120_000);
 });

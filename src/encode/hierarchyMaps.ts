@@ -1,5 +1,5 @@
 /**
- * encode/structureMaps: the mapping tables of target encoding over a level hierarchy — backoff
+ * encode/hierarchyMaps: the mapping tables of target encoding over a level hierarchy — backoff
  * groups (encode/backoffMaps) or the hierarchical prior (encode/hierarchicalMaps) — and the
  * files written beside the output:
  *  - `<column>.parquet`: one row per level (plan and input levels, `seen` = in the plan) with
@@ -14,27 +14,26 @@
 import type { Engine } from "../engine/db.js";
 import { TailsiftError } from "../errors.js";
 import { backoffFoldMap, backoffFullMap, groupsTable } from "./backoffMaps.js";
-import type { ColumnMap, MapContext } from "./columnMaps.js";
 import { buildGroupMap, groupTable } from "./groupMap.js";
 import { hierarchicalFoldMap, hierarchicalFullMap, parentsTable } from "./hierarchicalMaps.js";
 import { INPUT_LEVELS, PLAN_LEVELS } from "./levelTables.js";
 import { foldFile, mainFile, type MappingFile } from "./mappingFiles.js";
-import { setPrior } from "./structureSql.js";
+import { setPrior } from "./hierarchySql.js";
 import { foldPriors, fullTable, inputMeanSql, mapTable, sqlDouble } from "./targetMaps.js";
-import type { EncodedColumn, TargetStructure } from "./types.js";
+import type { ColumnMap, EncodedColumn, MapContext, TargetStructure } from "./types.js";
 
 /** Words for a structure ("backoff grouping", "a hierarchical prior"). */
-export const structureWords = (s: TargetStructure): string => (s.kind === "backoff" ? "backoff grouping" : "a hierarchical prior");
+export const hierarchyWords = (s: TargetStructure): string => (s.kind === "backoff" ? "backoff grouping" : "a hierarchical prior");
 
 /**
  * Builds the tables of one column. Edge cases: no target in the plan (scoring) → Error (the
  * caller checks first); leave-one-out → TailsiftError `bad_option` (only flat target encoding
  * has a leave-one-out form; the out-of-fold form is the one the evidence scored).
  */
-export async function buildStructureMap(engine: Engine, column: EncodedColumn, s: TargetStructure, ctx: MapContext): Promise<ColumnMap> {
+export async function buildHierarchyMap(engine: Engine, column: EncodedColumn, s: TargetStructure, ctx: MapContext): Promise<ColumnMap> {
   const { index: i, name } = column;
   if (ctx.leaveOneOut) {
-    throw new TailsiftError("bad_option", `--leave-one-out applies to flat target encoding; the plan encodes '${name}' with ${structureWords(s)}, whose out-of-fold form is the one scan scored — drop --leave-one-out`);
+    throw new TailsiftError("bad_option", `--leave-one-out applies to flat target encoding; the plan encodes '${name}' with ${hierarchyWords(s)}, whose out-of-fold form is the one scan scored — drop --leave-one-out`);
   }
   const scoring = ctx.mode === "scoring";
   if (scoring && ctx.targetMean === undefined) throw new Error("target encoding without a plan target");

@@ -1,8 +1,8 @@
 /**
- * encode/structureSql: the SQL pieces the backoff and hierarchical mappings share — the level
+ * encode/hierarchySql: the SQL pieces the backoff and hierarchical mappings share — the level
  * set they cover (the plan's levels and the input's, so unseen levels get their group or parent
  * inside the mapping), per-level target sums, weights as SQL, and the prior variable.
- * The smoothing itself is evidence/baseSql's mEstimateSql, the formula the scorer uses.
+ * The smoothing itself is engine/formulaSql's mEstimateSql, the formula the scorer uses.
  */
 import type { Engine } from "../engine/db.js";
 import { quoteLiteral } from "../engine/sql.js";

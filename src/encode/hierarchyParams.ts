@@ -1,5 +1,5 @@
 /**
- * encode/structureParams: reads the hierarchy part of a target-kfold plan column — the backoff
+ * encode/hierarchyParams: reads the hierarchy part of a target-kfold plan column — the backoff
  * grouping (`grouping: "backoff"`, `parents` deepest first, `minRows`, `weight`) or the
  * hierarchical prior (`prior: "hierarchical"`, `parent`, `weight`, `parentWeight`), as the
  * evidence writes them (evidence/hierarchyCandidates) — into a checked TargetStructure; and the

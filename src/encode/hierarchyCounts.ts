@@ -1,5 +1,5 @@
 /**
- * encode/structureCounts: the summary of target encoding over a hierarchy — which rows got the
+ * encode/hierarchyCounts: the summary of target encoding over a hierarchy — which rows got the
  * prior (the fallback count), the rule in words, and where the input's levels went (backoff:
  * own group, a parent group, "other"; hierarchical: own mean, parent mean, prior), from the
  * level and mapping tables only, never the rows. Where the levels went is counted the same way
@@ -13,7 +13,7 @@ import type { EncodeMode, EncodingSpec, GroupingCounts, HashGrouping, TargetStru
 const isNull = (w: number | null) => (w === null ? "true" : "false");
 
 /** SQL over `l` (input level row) and `m` (its mapping row): non-missing rows that got the prior. */
-export function structureFallbackCondition(s: TargetStructure, mode: EncodeMode): string {
+export function hierarchyFallbackCondition(s: TargetStructure, mode: EncodeMode): string {
   const training = mode === "training";
   if (s.kind === "backoff") return `l.level IS NOT NULL AND (${training ? "m.n_other" : "m.group_n_y"} <= 0 OR ${isNull(s.weight)})`;
   const own = `(${training ? "m.n_other" : "m.n_y"} <= 0 OR ${isNull(s.weight)})`;
@@ -22,7 +22,7 @@ export function structureFallbackCondition(s: TargetStructure, mode: EncodeMode)
 }
 
 /** What missing, unseen and fallback rows receive, in words. */
-export function structureFallbackRule(s: TargetStructure, mode: EncodeMode): string {
+export function hierarchyFallbackRule(s: TargetStructure, mode: EncodeMode): string {
   const p = mode === "scoring" ? "p" : "the other folds' mean";
   if (s.kind === "backoff") {
     return `missing → ${p}; unseen → their deepest parent group, else "other"; a group without target rows${mode === "training" ? " in other folds" : ""} → ${p}`;

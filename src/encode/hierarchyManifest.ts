@@ -1,5 +1,5 @@
 /**
- * encode/structureManifest: the `mappings.json` parameters of target encoding over a hierarchy —
+ * encode/hierarchyManifest: the `mappings.json` parameters of target encoding over a hierarchy —
  * everything a serving system needs besides the Parquet tables: the parents, the weights, the
  * prior and the formulas in words, including how a level absent from the tables is encoded;
  * and those of the hashing of backoff groups (the same grouping, no target).
@@ -30,7 +30,7 @@ export function hashedGroupManifestParams(width: number, salt: string, g: HashGr
  * The parameters; `p` = the prior of the full-data values, `foldPriors` = the other-folds
  * priors of a training run (null when scoring).
  */
-export function structureManifestParams(s: TargetStructure, mode: EncodeMode, p: number | null, foldPriors: number[] | null): Record<string, unknown> {
+export function hierarchyManifestParams(s: TargetStructure, mode: EncodeMode, p: number | null, foldPriors: number[] | null): Record<string, unknown> {
   const training = mode === "training" ? { foldPriors } : {};
   if (s.kind === "backoff") {
     return {
