@@ -43,6 +43,7 @@ export function sourceOptions(cmd: Command): Command {
   return cmd
     .option("--skip-bad-rows", "skip rows that do not parse (ragged rows) instead of stopping")
     .option("--encoding <name>", "text encoding of CSV input: utf-8, latin-1 or utf-16")
-    .option("--delimiter <char>", "CSV delimiter (default: detected; tab for .tsv)", delimiter);
+    .option("--delimiter <char>", "CSV delimiter (default: detected; tab for .tsv)", delimiter)
+    .option("--missing-like <values>", "read these values as missing in every column, trimmed and case-insensitive, e.g. unknown,n/a (comma-separated, repeatable; encode and drift default to the plan's)", list);
 }
 

@@ -12,6 +12,7 @@ import { buildLevelTable } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { singleFold } from "../engine/folds.js";
 import { describeFiles, openSource, type SourceOptions } from "../engine/source.js";
+import { planMissingLike } from "../engine/missingLike.js";
 import type { TargetSpec } from "../engine/target.js";
 import { TailsiftError } from "../errors.js";
 import type { ColumnProfile, Profile } from "../profile/types.js";
@@ -59,8 +60,9 @@ async function compare(
   engine: Engine, inputs: readonly string[], profile: Profile, profilePath: string,
   thresholds: DriftThresholds, options: DriftOptions,
 ): Promise<DriftReport> {
-  const source = await openSource(engine, inputs, options);
-  const compared = profile.columns.filter((c) => COMPARED_ROLES.has(c.role));
+  const source = await openSource(engine, inputs, { ...options, missingLike: planMissingLike(profile.settings.missingLike, options.missingLike, false) });
+  // numeric identifiers (numericValues set) have no levels in the plan's level table
+  const compared = profile.columns.filter((c) => COMPARED_ROLES.has(c.role) && c.numericValues === undefined);
   const present = compared.filter((c) => source.columns.includes(c.name));
   const planTarget = profile.target;
   const targetSpec: TargetSpec | undefined = planTarget && source.columns.includes(planTarget.column)

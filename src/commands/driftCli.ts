@@ -16,7 +16,7 @@ interface DriftCliOptions extends DriftThresholds {
   plan: string;
   format: "table" | "json" | "markdown";
   memoryLimit?: string; threads?: number; tempDir?: string;
-  skipBadRows?: boolean; encoding?: string; delimiter?: string;
+  skipBadRows?: boolean; encoding?: string; delimiter?: string; missingLike?: string[];
   quiet?: boolean; progress?: boolean; debug?: boolean;
 }
 
@@ -42,7 +42,7 @@ export function addDriftCommand(program: Command, io: CliIO): void {
       report = await drift(inputs, o.plan, {
         thresholds: { psiWatch: o.psiWatch, psiAct: o.psiAct, unseenActRatio: o.unseenActRatio, unseenActMin: o.unseenActMin, effectAct: o.effectAct },
         memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
-        skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter,
+        skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter, missingLike: o.missingLike,
         onEngine: (e) => { progress.attach(e); io.onEngine?.(e); },
       });
     } finally {

@@ -17,6 +17,7 @@ import { foldSql, readFoldContract, singleFold } from "../engine/folds.js";
 import { contentFingerprintOf } from "../engine/contentFingerprint.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { describeFiles, openSource, type SourceOptions } from "../engine/source.js";
+import { planMissingLike } from "../engine/missingLike.js";
 import { TailsiftError } from "../errors.js";
 import { writeOutput } from "../encode/writeOutput.js";
 import { mappingsDirFor, outputFormat } from "../encode/outputFile.js";
@@ -86,7 +87,7 @@ export async function encode(inputs: readonly string[], options: EncodeOptions):
 }
 
 async function encodeWith(engine: Engine, inputs: readonly string[], profile: Profile, levelsPath: string, o: EncodeOptions & { foldColumn: string }): Promise<EncodeSummary> {
-  const source = await openSource(engine, inputs, o);
+  const source = await openSource(engine, inputs, { ...o, missingLike: planMissingLike(profile.settings.missingLike, o.missingLike, true) });
   // globs and Parquet folders are expanded now: compare every file read with what is written
   refuseInputAsOutput(o.out, source.files, [mappingsDirFor(o.out)]);
   const training = o.mode === "training";

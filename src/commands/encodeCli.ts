@@ -23,7 +23,7 @@ interface EncodeCliOptions {
   cellGuard: boolean;
   format: "table" | "json";
   memoryLimit?: string; threads?: number; tempDir?: string;
-  skipBadRows?: boolean; encoding?: string; delimiter?: string;
+  skipBadRows?: boolean; encoding?: string; delimiter?: string; missingLike?: string[];
   quiet?: boolean; progress?: boolean; debug?: boolean;
 }
 
@@ -54,7 +54,7 @@ export function addEncodeCommand(program: Command, io: CliIO): void {
         leaveOneOut: o.leaveOneOut ?? false, recount: o.recount ?? false,
         rawNames: o.rawNames ?? false, cellGuard: o.cellGuard,
         memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
-        skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter,
+        skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter, missingLike: o.missingLike,
         onEngine: (e) => { progress.attach(e); io.onEngine?.(e); },
       });
     } finally {

@@ -7,11 +7,13 @@ import { DEFAULT_POLICY, validatePolicy, type AdvicePolicy } from "../advice/pol
 import { buildLevelTable } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { checkFoldBy, groupedFolds, rowHashFolds, type FoldContract } from "../engine/folds.js";
-import { looksNumeric, numberTypeOf, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
+import { numberTypeOf, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
+import { normaliseMissingLike } from "../engine/missingLike.js";
 import { checkMeasuredWidth, countSkippedRows, describeFiles, openSource, type Source, type SourceOptions } from "../engine/source.js";
 import { resolveTarget, type TargetSpec } from "../engine/target.js";
 import { TailsiftError } from "../errors.js";
 import { adviseFromLevelTable } from "../pipeline/advise.js";
+import { planColumnKinds } from "../pipeline/columnKinds.js";
 import { addFoldNotes } from "../pipeline/foldNotes.js";
 import { checkTarget } from "../profile/checkTarget.js";
 import type { Encoding, Profile, TargetKind } from "../profile/types.js";
@@ -81,8 +83,7 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
   const candidates = source.columns.filter((c) => c !== options.target && !excluded.has(c) && (chosen === null || chosen.has(c)));
   checkMeasuredWidth(candidates.length, source);
   const samples = await sampleColumns(engine, source.view, candidates);
-  const numeric = samples.filter((s) => !forced.has(s.name) && looksNumeric(s)).map((s) => s.name);
-  const levelColumns = candidates.filter((c) => !numeric.includes(c));
+  const { levelColumns, numeric, time, distinct } = planColumnKinds(candidates, samples, forced);
 
   let targetSpec: TargetSpec | undefined;
   if (options.target !== undefined) {
@@ -92,13 +93,16 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
 
   // the fold of a row reads every column of the input, in file order (or, with --fold-by, the key)
   const fold = foldBy ? groupedFolds(foldBy, policy.folds, policy.seed) : foldOf(source.columns);
-  const totals = await buildLevelTable(engine, { view: source.view, levelColumns, countColumns: numeric, target: targetSpec, fold, contentColumns: source.columns },
+  const totals = await buildLevelTable(engine, {
+    view: source.view, levelColumns, countColumns: [...numeric, ...time], timeColumns: time, distinctColumns: distinct, target: targetSpec, fold, contentColumns: source.columns,
+  },
     `scanning ${source.files.length === 1 ? `'${source.files[0]}'` : `${source.files.length} files`}`);
   if (totals.rows === 0) throw new TailsiftError("empty_input", `${describeFiles(source.files)} has a header but no rows; give a file with rows`);
   const skippedRows = await countSkippedRows(engine, source);
 
   const profile = await adviseFromLevelTable(engine, {
-    levelColumns, numeric, allColumns: source.columns, totals, policy, top: options.top ?? 20, outOfFold: true,
+    levelColumns, numeric: [...numeric, ...time], time, samples, allColumns: source.columns, totals, policy, top: options.top ?? 20, outOfFold: true,
+    missingLike: normaliseMissingLike(options.missingLike),
     target: targetSpec ? checkTarget(targetSpec, totals) : undefined, targetColumn: options.target,
     decide: options.decide, levelTableOut: options.levelTableOut,
     input: {

@@ -34,7 +34,7 @@ export interface ScanCliOptions {
   format: "table" | "json" | "markdown";
   out?: string;
   memoryLimit?: string; threads?: number; tempDir?: string;
-  skipBadRows?: boolean; encoding?: string; delimiter?: string;
+  skipBadRows?: boolean; encoding?: string; delimiter?: string; missingLike?: string[];
   quiet?: boolean; progress?: boolean; debug?: boolean;
   /** The inputs are level tables (from the query of `tailsift sql`), not raw rows. */
   levels?: boolean;
@@ -80,7 +80,7 @@ async function scanAndWrite(inputs: string[], o: ScanCliOptions, io: IO, onEngin
     policy: policyOptions(o),
     decide: o.decide, ...(o.foldBy !== undefined ? { foldBy: o.foldBy } : {}),
     memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
-    skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter,
+    skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter, missingLike: o.missingLike,
     levelTableOut: levelTemp,
     lockToPaths: [...inputs, ...(o.out ? [o.out] : [])],
     onEngine,
@@ -139,7 +139,7 @@ export async function runReport(profilePath: string, out: string, io: IO): Promi
  * level tables; --folds only matters for a one-fold table (the K recorded for target-kfold).
  */
 export function levelScanOptions(o: ScanCliOptions, onEngine: (e: Engine | null) => void): LevelScanOptions {
-  const refused = [o.foldBy !== undefined ? "--fold-by" : "", o.asCategorical?.length ? "--as-categorical" : "", o.skipBadRows ? "--skip-bad-rows" : "", o.encoding ? "--encoding" : ""].filter((x) => x);
+  const refused = [o.foldBy !== undefined ? "--fold-by" : "", o.asCategorical?.length ? "--as-categorical" : "", o.skipBadRows ? "--skip-bad-rows" : "", o.encoding ? "--encoding" : "", o.missingLike?.length ? "--missing-like (give it to tailsift sql)" : ""].filter((x) => x);
   if (refused.length > 0) throw new TailsiftError("bad_option", `${refused.join(", ")} do${refused.length === 1 ? "es" : ""} not apply to --levels: level tables are already counted`);
   return {
     target: o.target, positive: o.positive, targetKind: o.targetKind, columns: o.columns, exclude: o.exclude, top: o.top,

@@ -28,10 +28,11 @@ export function addSqlCommand(program: Command, io: CliIO): void {
     .option("--fold-expr <sql>", "SQL expression giving each row's fold (e.g. a hash of a row key modulo K); without it every row is fold 0 and scan --levels cannot compute out-of-fold figures")
     .option("--folds <k>", "wrap the fold expression as MOD(ABS(expr), K)", integer("--folds"))
     .addOption(new Option("--dialect <name>", "how the SQL is spelled: ansi (DuckDB, PostgreSQL, Trino), spark (backticks, STRING) or clickhouse (modulo, toFloat64, Nullable(String); no CTE)").choices(["ansi", "spark", "clickhouse"]).default("ansi"))
+    .option("--missing-like <values>", "count these values as missing (NULL), trimmed and case-insensitive, as scan --missing-like does (comma-separated, repeatable; level-table SQL only)", list)
     .option("--debug", "print the stack trace of an error")
     .action(async (opts: SqlCliOptions) => {
       if (opts.plan !== undefined) {
-        const misplaced = [opts.columns ? "--columns" : "", opts.target ? "--target" : "", opts.positive ? "--positive" : "", opts.targetKind ? "--target-kind" : "", opts.foldExpr ? "--fold-expr" : "", opts.folds !== undefined ? "--folds" : ""].filter((x) => x);
+        const misplaced = [opts.columns ? "--columns" : "", opts.target ? "--target" : "", opts.positive ? "--positive" : "", opts.targetKind ? "--target-kind" : "", opts.foldExpr ? "--fold-expr" : "", opts.folds !== undefined ? "--folds" : "", opts.missingLike ? "--missing-like" : ""].filter((x) => x);
         if (misplaced.length > 0) throw new TailsiftError("bad_option", `${misplaced.join(", ")} do not apply with --plan: the plan says what is encoded`);
         const { sql } = await scoringQuery({ plan: opts.plan, from: opts.from, dialect: opts.dialect, inlineMax: opts.inlineMax, mappingsOut: opts.mappingsOut, rawNames: opts.rawNames });
         io.stdout(`${sql.trimEnd()};\n`);
@@ -41,6 +42,7 @@ export function addSqlCommand(program: Command, io: CliIO): void {
       const sql = levelSql({
         columns: opts.columns ?? [], from: opts.from, target: opts.target, positive: opts.positive,
         targetKind: opts.targetKind, foldExpr: opts.foldExpr, folds: opts.folds, dialect: opts.dialect,
+        ...(opts.missingLike ? { missingLike: opts.missingLike } : {}),
       });
       io.stdout(`${sql.trimEnd()};\n`);
     });

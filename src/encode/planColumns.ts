@@ -33,6 +33,9 @@ const list = (names: readonly string[]) => names.map((n) => `'${n}'`).join(", ")
 /**
  * How a passed-through column is written: `--keep` columns untouched (text), the target as its y,
  * the plan's numeric columns as the type scan's sample recorded (double for older plans).
+ * Everything else is text as read: a time column (role time) too — it may hold rows that do not
+ * read as a time (scan counts them as unparsed), which a TIMESTAMP cast would refuse or null —
+ * and a numeric identifier, which the plan drops and `--keep` passes as text (a key, never a number to sum).
  */
 function passType(name: string, kept: boolean, target: string | undefined, column: ColumnProfile | undefined): PassType {
   if (kept) return "text";

@@ -11,10 +11,11 @@ import type { Engine } from "./db.js";
 import { foldSql } from "./folds.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
 import { targetSql } from "./target.js";
+import { readTimeTotals, timePassAggregates, timeTotalsSql, timeValueSql, type TimeTotals } from "./timeColumns.js";
 import { buildWideLevelTable, useWidePass } from "./widePass.js";
 
 export { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
-import { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
+import { DISTINCT_COL_BASE, LEVEL_TABLE, type PassPlan } from "./passPlan.js";
 
 export interface PassTotals {
   rows: number;
@@ -26,6 +27,10 @@ export interface PassTotals {
   nonMissing: Map<string, number>;
   /** The content fingerprint, when the plan asked for it. */
   content?: string;
+  /** Per time column: exact range and granularity counts. */
+  time?: Map<string, TimeTotals>;
+  /** Per distinct-counted column: exact distinct values and rows of the most repeated value. */
+  distinct?: Map<string, { distinct: number; maxRows: number }>;
 }
 
 /** The level-table query. For a binary target y ∈ {0, 1}, so Σy² = Σy and is not summed twice. */
@@ -38,15 +43,21 @@ export function levelPassSql(plan: PassPlan): string {
     ...plan.levelColumns.map((c, i) => `${quoteIdent(c)} AS __v${i}`),
     ...plan.countColumns.map((c, i) => `${quoteIdent(c)} AS __n${i}`),
     ...(plan.contentColumns ? [`${contentHashSql(plan.contentColumns)} AS __h`] : []),
+    ...(plan.timeColumns ?? []).map((c, i) => `${timeValueSql(quoteIdent(c))} AS __t${i}`),
+    ...(plan.distinctColumns ?? []).map((c, i) => `${quoteIdent(c)} AS __k${i}`),
   ];
-  const sets = [...plan.levelColumns.map((_, i) => `(__v${i}, __fold)`), "(__fold)"];
-  const which = plan.levelColumns.length === 0
+  // distinct-counted columns are grouped without the fold, as col = DISTINCT_COL_BASE - j (read and removed after the pass)
+  const keys = plan.distinctColumns ?? [];
+  const grouped = [...plan.levelColumns.map((_, i) => ({ v: `__v${i}`, col: i })), ...keys.map((_, j) => ({ v: `__k${j}`, col: DISTINCT_COL_BASE - j }))];
+  const sets = [...plan.levelColumns.map((_, i) => `(__v${i}, __fold)`), "(__fold)", ...keys.map((_, j) => `(__k${j})`)];
+  const which = grouped.length === 0
     ? "-1"
-    : `CASE ${plan.levelColumns.map((_, i) => `WHEN GROUPING(__v${i}) = 0 THEN ${i}`).join(" ")} ELSE -1 END`;
-  const level = plan.levelColumns.length === 0
+    : `CASE ${grouped.map((g) => `WHEN GROUPING(${g.v}) = 0 THEN ${g.col}`).join(" ")} ELSE -1 END`;
+  const level = grouped.length === 0
     ? "NULL::VARCHAR"
-    : plan.levelColumns.length === 1 ? "__v0" : `COALESCE(${plan.levelColumns.map((_, i) => `__v${i}`).join(", ")})`;
+    : grouped.length === 1 ? grouped[0]!.v : `COALESCE(${grouped.map((g) => g.v).join(", ")})`;
   const counts = plan.countColumns.map((_, i) => `, count(__n${i})::BIGINT AS __nn${i}`).join("")
+    + (plan.timeColumns ?? []).map((_, i) => `, ${timePassAggregates(`__t${i}`, i)}`).join("")
     + (plan.contentColumns ? ", sum(__h)::HUGEINT AS __content" : "");
   return `SELECT (${which})::INTEGER AS col, ${level} AS level, __fold AS fold, count(*)::BIGINT AS rows,
   count(__y)::BIGINT AS n_y, coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${plan.target?.kind === "binary" ? "coalesce(sum(__y), 0)::DOUBLE" : "coalesce(sum(__y * __y), 0)::DOUBLE"} AS sum_y2,
@@ -75,21 +86,37 @@ async function buildGroupingSetsLevelTable(engine: Engine, plan: PassPlan, doing
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TABLE} AS ${levelPassSql({ ...plan, levelColumns: first })}`, doing);
   for (let offset = PASS_BATCH; offset < plan.levelColumns.length; offset += PASS_BATCH) {
     const batch = plan.levelColumns.slice(offset, offset + PASS_BATCH);
-    const sql = levelPassSql({ ...plan, levelColumns: batch, countColumns: [] });
+    const sql = levelPassSql({ ...plan, levelColumns: batch, countColumns: [], timeColumns: [], distinctColumns: [] });
     await engine.run(
       `INSERT INTO ${LEVEL_TABLE} BY NAME SELECT col + ${sqlNumber(offset)} AS col, level, fold, rows, n_y, sum_y, sum_y2, bad FROM (${sql}) WHERE col >= 0`,
       `${doing} (columns ${offset + 1}–${offset + batch.length})`);
   }
 }
 
+/** Exact distinct values per distinct-counted column (summed over folds), then their rows are removed. */
+async function readDistinctCounts(engine: Engine, plan: PassPlan): Promise<Map<string, { distinct: number; maxRows: number }>> {
+  const keys = plan.distinctColumns ?? [];
+  const distinct = new Map<string, { distinct: number; maxRows: number }>();
+  if (keys.length === 0) return distinct;
+  const found = await engine.rows<{ col: number; d: number; mx: number }>(
+    `SELECT col, count(*)::DOUBLE AS d, max(r)::DOUBLE AS mx
+     FROM (SELECT col, level, sum(rows) AS r FROM ${LEVEL_TABLE} WHERE col <= ${sqlNumber(DISTINCT_COL_BASE)} AND level IS NOT NULL GROUP BY col, level)
+     GROUP BY col`, "counting distinct numeric values");
+  keys.forEach((c) => distinct.set(c, { distinct: 0, maxRows: 0 }));
+  for (const r of found) { const c = keys[DISTINCT_COL_BASE - r.col]; if (c !== undefined) distinct.set(c, { distinct: r.d, maxRows: r.mx }); }
+  await engine.run(`DELETE FROM ${LEVEL_TABLE} WHERE col <= ${sqlNumber(DISTINCT_COL_BASE)}`, "counting distinct numeric values");
+  return distinct;
+}
+
 async function readPassTotals(engine: Engine, plan: PassPlan): Promise<PassTotals> {
+  const distinct = await readDistinctCounts(engine, plan);
   const counts = plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("")
     + (plan.contentColumns ? ", sum(__content)::VARCHAR AS content" : "");
   const rows = await engine.rows<Record<string, number>>(
     `SELECT fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, bad::DOUBLE AS bad${counts}
      FROM ${LEVEL_TABLE} WHERE col = -1 GROUP BY ALL ORDER BY fold`, "reading the pass totals");
   const foldRows = Array.from({ length: plan.fold.k }, () => 0);
-  const totals: PassTotals = { rows: 0, foldRows, targetRows: 0, sumY: 0, sumY2: 0, badTargets: 0, nonMissing: new Map() };
+  const totals: PassTotals = { rows: 0, foldRows, targetRows: 0, sumY: 0, sumY2: 0, badTargets: 0, nonMissing: new Map(), time: new Map(), distinct };
   for (const r of rows) {
     foldRows[r.fold ?? 0] = r.rows ?? 0;
     totals.rows += r.rows ?? 0;
@@ -100,5 +127,12 @@ async function readPassTotals(engine: Engine, plan: PassPlan): Promise<PassTotal
     plan.countColumns.forEach((c, i) => totals.nonMissing.set(c, (totals.nonMissing.get(c) ?? 0) + (r[`nn${i}`] ?? 0)));
   }
   if (plan.contentColumns) totals.content = formatContentFingerprint(totals.rows, rows.map((r) => (r as unknown as { content: string | null }).content));
+  const times = plan.timeColumns ?? [];
+  if (times.length > 0) {
+    // the time aggregates are combined over folds in SQL (min/max of timestamps, not of text in JS)
+    const [all] = await engine.rows<Record<string, unknown>>(
+      `SELECT ${times.map((_, i) => timeTotalsSql(i)).join(", ")} FROM ${LEVEL_TABLE} WHERE col = -1`, "reading the time ranges");
+    times.forEach((c, i) => totals.time?.set(c, readTimeTotals(all ?? {}, i)));
+  }
   return totals;
 }

@@ -14,6 +14,7 @@ import { isTailsiftError, TailsiftError, wrapEngineError } from "../errors.js";
 import { checkCompressedWhole } from "./compressed.js";
 import type { Engine } from "./db.js";
 import { quoteIdent, quoteLiteral, quoteLiteralList } from "./sql.js";
+import { missingLikeSql, normaliseMissingLike } from "./missingLike.js";
 
 export type InputFormat = "csv" | "tsv" | "parquet" | "jsonl";
 
@@ -24,6 +25,8 @@ export interface SourceOptions {
   encoding?: string;
   /** CSV delimiter; detected when absent (tab for .tsv). */
   delimiter?: string;
+  /** Values read as missing in every column (engine/missingLike: trimmed, case-insensitive). */
+  missingLike?: readonly string[];
 }
 
 export interface Source {
@@ -270,7 +273,8 @@ export async function openSource(engine: Engine, inputs: readonly string[], opti
   const withNul = columns.find((c) => c.includes("\u0000"));
   if (withNul !== undefined) throw new TailsiftError("bad_column_name", `${describeFiles(files)} has a column name with a NUL byte ('${withNul.replaceAll("\u0000", "\\0")}'); rename it`);
   if (csv && columns.some((c) => RENAMED.test(c))) await checkRawHeaders(engine, format, files, options);
-  const select = columns.map((c) => `CAST(${quoteIdent(c)} AS VARCHAR) AS ${quoteIdent(c)}`).join(", ");
+  const missingLike = normaliseMissingLike(options.missingLike);
+  const select = columns.map((c) => `${missingLikeSql(`CAST(${quoteIdent(c)} AS VARCHAR)`, missingLike)} AS ${quoteIdent(c)}`).join(", ");
   await engine.run(`CREATE OR REPLACE TEMP VIEW tailsift_src AS SELECT ${select} FROM ${reader}`, "creating the input view");
   return { files, format, bytes, columns, fingerprint: fingerprintFiles(files), view: "tailsift_src", skipBadRows: csv && (options.skipBadRows ?? false) };
 }

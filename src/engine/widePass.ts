@@ -8,7 +8,10 @@
  *   tailsift_levels(col, level, fold, rows, n_y, sum_y, sum_y2, bad, __nn0 …)
  * The per-fold totals (col = -1) ride along as one more unnested entry per row; the non-missing
  * counts of numeric columns ride along as marker entries (col = -2 - j, level '' when present),
- * which are moved into the totals rows' __nn columns and deleted once the pass is done.
+ * which are moved into the totals rows' __nn columns and deleted once the pass is done. As in the
+ * GROUPING SETS pass, time columns add their range aggregates (engine/timeColumns) to the totals
+ * rows — taken over the one totals entry per row — and distinct-counted numeric columns add their
+ * values as entries col = DISTINCT_COL_BASE - j, which engine/aggregate reads and deletes.
  * Level rows carry bad per group, as in the GROUPING SETS pass; their __nn columns are NULL
  * (only the totals rows' __nn are ever read). With plan.contentColumns the row's content hash is
  * computed once, before the unnest, and summed on the totals rows only (__content), as in the
@@ -16,10 +19,11 @@
  */
 import { contentHashSql } from "./contentFingerprint.js";
 import type { Engine } from "./db.js";
-import { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
+import { DISTINCT_COL_BASE, LEVEL_TABLE, type PassPlan } from "./passPlan.js";
 import { foldSql } from "./folds.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
 import { targetSql } from "./target.js";
+import { timePassAggregates, timeValueSql } from "./timeColumns.js";
 
 /**
  * The wide pass is used from this many measured columns on. Measured with bench/wide-crossover.mjs
@@ -39,26 +43,33 @@ export function useWidePass(plan: PassPlan): boolean {
   return plan.levelColumns.length >= WIDE_PASS_MIN_COLUMNS;
 }
 
-/** The aggregate of the wide pass, including the totals (-1) and numeric-marker (≤ -2) rows. */
+/** The aggregate of the wide pass, including the totals (-1), numeric-marker (≤ -2) and distinct (≤ DISTINCT_COL_BASE) rows. */
 export function widePassSql(plan: PassPlan): string {
   const target = plan.target ? targetSql(plan.target) : { y: "NULL::DOUBLE", bad: "false" };
+  const keys = plan.distinctColumns ?? [];
+  const times = plan.timeColumns ?? [];
   const cols = [
     ...plan.levelColumns.map((_, i) => sqlNumber(i)),
     "-1",
     ...plan.countColumns.map((_, j) => sqlNumber(-2 - j)),
+    ...keys.map((_, j) => sqlNumber(DISTINCT_COL_BASE - j)),
   ];
   const values = [
     ...plan.levelColumns.map((c) => quoteIdent(c)),
     "NULL::VARCHAR",
     ...plan.countColumns.map((c) => `CASE WHEN ${quoteIdent(c)} IS NULL THEN NULL ELSE '' END`),
+    ...keys.map((c) => quoteIdent(c)),
   ];
+  const timeCols = times.map((_, i) => `, __t${i}`).join("");
+  const timeValues = times.map((c, i) => `, ${timeValueSql(quoteIdent(c))} AS __t${i}`).join("");
+  const timeAggs = times.map((_, i) => `, ${timePassAggregates(`__t${i}`, i, "col = -1")}`).join("");
   const content = plan.contentColumns ? `, sum(__h) FILTER (WHERE col = -1)::HUGEINT AS __content` : "";
   const hash = plan.contentColumns ? `, ${contentHashSql(plan.contentColumns)} AS __h` : "";
   const y2 = plan.target?.kind === "binary" ? "coalesce(sum(__y), 0)::DOUBLE" : "coalesce(sum(__y * __y), 0)::DOUBLE";
   return `SELECT col, level, __fold AS fold, count(*)::BIGINT AS rows, count(__y)::BIGINT AS n_y,
-  coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${y2} AS sum_y2, count(*) FILTER (WHERE __bad)::BIGINT AS bad${content}
-FROM (SELECT __fold, __y, __bad${plan.contentColumns ? ", __h" : ""}, unnest([${cols.join(", ")}])::INTEGER AS col, unnest(__vals) AS level
-      FROM (SELECT ${foldSql(plan.fold)} AS __fold, ${target.y} AS __y, ${target.bad} AS __bad${hash},
+  coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${y2} AS sum_y2, count(*) FILTER (WHERE __bad)::BIGINT AS bad${timeAggs}${content}
+FROM (SELECT __fold, __y, __bad${timeCols}${plan.contentColumns ? ", __h" : ""}, unnest([${cols.join(", ")}])::INTEGER AS col, unnest(__vals) AS level
+      FROM (SELECT ${foldSql(plan.fold)} AS __fold, ${target.y} AS __y, ${target.bad} AS __bad${timeValues}${hash},
               [${values.join(", ")}]::VARCHAR[] AS __vals
             FROM ${plan.view}))
 GROUP BY col, level, __fold`;
@@ -69,10 +80,12 @@ export async function buildWideLevelTable(engine: Engine, plan: PassPlan, doing:
   const nn = plan.countColumns.map((_, j) => `, NULL::BIGINT AS __nn${j}`).join("");
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TABLE} AS SELECT *${nn} FROM (${widePassSql(plan)})`, doing);
   if (plan.countColumns.length === 0) return;
+  const markerFloor = sqlNumber(DISTINCT_COL_BASE);
   const sets = plan.countColumns.map((_, j) => `__nn${j} = coalesce(m.__m${j}, 0)`).join(", ");
   const sums = plan.countColumns.map((_, j) => `sum(rows) FILTER (WHERE col = ${sqlNumber(-2 - j)} AND level IS NOT NULL)::BIGINT AS __m${j}`).join(", ");
   await engine.run(`UPDATE ${LEVEL_TABLE} SET ${sets}
-    FROM (SELECT fold AS __f, ${sums} FROM ${LEVEL_TABLE} WHERE col <= -2 GROUP BY fold) m
+    FROM (SELECT fold AS __f, ${sums} FROM ${LEVEL_TABLE} WHERE col <= -2 AND col > ${markerFloor} GROUP BY fold) m
     WHERE ${LEVEL_TABLE}.col = -1 AND ${LEVEL_TABLE}.fold = m.__f`, "counting non-missing numeric values");
-  await engine.run(`DELETE FROM ${LEVEL_TABLE} WHERE col <= -2`, "counting non-missing numeric values");
+  // the distinct entries (≤ DISTINCT_COL_BASE) stay for engine/aggregate to read
+  await engine.run(`DELETE FROM ${LEVEL_TABLE} WHERE col <= -2 AND col > ${markerFloor}`, "counting non-missing numeric values");
 }

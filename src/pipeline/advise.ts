@@ -3,7 +3,9 @@
  * `tailsift_levels` alone. `scan` calls it after its pass; `scan --levels` after loading tables
  * made elsewhere. One order, written here once:
  *
- *   1. bounded summaries → column figures (counts, coverage, unseen rate, role, variants)
+ *   1. bounded summaries → column figures (counts, coverage, unseen rate, role, variants,
+ *      placeholder levels); the numeric and time columns get their role and decision from the
+ *      pass's exact counts (advice/passThroughColumns) when the profile is assembled
  *   2. target figures (prior weight, flags, leakage, level rates) — or, without a target, the
  *      hashing widths (advice/hashWidth)
  *   3. hierarchy figures (hierarchy/hierarchyFor)
@@ -24,6 +26,7 @@ import { overrideRecommendation } from "../advice/overrides.js";
 import type { AdvicePolicy } from "../advice/policy.js";
 import { recommend } from "../advice/recommend.js";
 import type { PassTotals } from "../engine/aggregate.js";
+import type { ColumnSample } from "../engine/inspect.js";
 import type { Engine } from "../engine/db.js";
 import { writeLevelTable } from "../engine/levelFile.js";
 import { applyEvidence } from "../evidence/applyEvidence.js";
@@ -34,11 +37,19 @@ import { hierarchyFor } from "../hierarchy/hierarchyFor.js";
 import type { ColumnProfile, Encoding, Profile, ProfileTarget, Recommendation } from "../profile/types.js";
 import { toolVersion } from "../version.js";
 import { measureColumns, otherColumns } from "./columns.js";
+import { addPlaceholderFigures } from "./placeholderLevels.js";
 import { addTargetFigures } from "./targetFigures.js";
 
 export interface AdviceInput {
   levelColumns: string[];
+  /** Columns passed through (numeric and time columns), not counted as levels. */
   numeric: string[];
+  /** Of `numeric`: the columns with the time role (engine/timeColumns). */
+  time?: string[];
+  /** The first-rows sample (scan only; absent when advising from level tables). */
+  samples?: ColumnSample[];
+  /** --missing-like values (normalised) the input was read with; recorded as settings.missingLike. */
+  missingLike?: string[];
   allColumns: string[];
   totals: PassTotals;
   target: ProfileTarget | undefined;
@@ -63,6 +74,7 @@ export async function adviseFromLevelTable(engine: Engine, ctx: AdviceInput): Pr
   const { target, policy } = ctx;
   // 1. summaries → figures
   const { columns, tops } = await measureColumns(engine, ctx.levelColumns, ctx.totals.rows, policy, ctx.top);
+  await addPlaceholderFigures(engine, columns);
   // 2. target figures, or hashing widths
   if (target) {
     await addTargetFigures(engine, columns, tops, target);
@@ -125,6 +137,7 @@ function assemble(ctx: AdviceInput, columns: ColumnProfile[]): Profile {
       folds: policy.folds, seed: policy.seed, top: ctx.top, maxOneHot: policy.maxOneHot,
       minLevelRows: policy.minLevelRows, coverage: policy.coverage, collisionBudget: policy.collisionBudget,
       maxHashBits: policy.hashMaxBits,
+      ...(ctx.missingLike && ctx.missingLike.length > 0 ? { missingLike: ctx.missingLike } : {}),
     },
     columns: all,
   };

@@ -2,7 +2,7 @@
  * pipeline/columns: step 1 of the advice pipeline — the target-free figures of every level
  * column from bounded summaries of the level table (count-of-counts, top levels, spelling
  * variants), its role (constant, identifier-like, categorical), and the record of the columns
- * that are not measured (target, numeric, excluded).
+ * that are not measured as levels (target, numeric, time, excluded).
  */
 import type { AdvicePolicy } from "../advice/policy.js";
 import type { Engine } from "../engine/db.js";
@@ -10,6 +10,8 @@ import { buildLevelTotals, findVariants, summariseLevels, type LevelRow } from "
 import { columnFigures, isIdentifierLike, unmeasuredColumn } from "../profile/columnFigures.js";
 import type { ColumnProfile, ProfileTarget } from "../profile/types.js";
 import type { PassTotals } from "../engine/aggregate.js";
+import type { ColumnSample } from "../engine/inspect.js";
+import { passThroughProfile } from "../advice/passThroughColumns.js";
 
 /** Spelling variants are looked for in columns of up to this many levels (see measureColumns). */
 export const VARIANT_MAX_LEVELS = 100_000;
@@ -45,15 +47,20 @@ export async function measureColumns(engine: Engine, levelColumns: readonly stri
   return { columns, tops: summaries.map((s) => s.top) };
 }
 
-/** The record of every column that is not a level column: the target, numeric and excluded columns. */
-export function otherColumns(ctx: { allColumns: readonly string[]; levelColumns: readonly string[]; numeric: readonly string[]; targetColumn?: string; target: ProfileTarget | undefined; totals: PassTotals }): ColumnProfile[] {
+/**
+ * The record of every column that is not a level column: the target, numeric (or numeric
+ * identifier), time and excluded columns (advice/passThroughColumns decides the numeric and time ones).
+ */
+export function otherColumns(ctx: {
+  allColumns: readonly string[]; levelColumns: readonly string[]; numeric: readonly string[]; time?: readonly string[];
+  samples?: readonly ColumnSample[]; targetColumn?: string; target: ProfileTarget | undefined; totals: PassTotals;
+}): ColumnProfile[] {
   const { totals } = ctx;
   return ctx.allColumns
     .filter((c) => !ctx.levelColumns.includes(c))
     .map((c) => c === ctx.targetColumn
       ? unmeasuredColumn(c, "target", totals.rows, ctx.target?.missing ?? 0, "The target: passed through unchanged.")
       : ctx.numeric.includes(c)
-        ? unmeasuredColumn(c, "numeric", totals.rows, totals.rows - (totals.nonMissing.get(c) ?? 0),
-          "Numeric: every sampled value is a number with more than 20 distinct values; passed through unchanged (use --as-categorical to profile it as levels).")
+        ? passThroughProfile(c, totals, ctx.samples, ctx.time)
         : unmeasuredColumn(c, "excluded", totals.rows, 0, "Excluded by --columns/--exclude: not measured."));
 }

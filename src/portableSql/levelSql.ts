@@ -11,6 +11,7 @@
 import { checkFoldCount } from "../engine/folds.js";
 import { TailsiftError } from "../errors.js";
 import { sqlNumber } from "../engine/sql.js";
+import { missingLikeSql, normaliseMissingLike } from "../engine/missingLike.js";
 import { NEGATIVE_WORDS, POSITIVE_WORDS } from "../engine/target.js";
 import type { TargetKind } from "../profile/types.js";
 import { ANSI, dialectOf, type Dialect, type DialectName } from "./dialects.js";
@@ -32,6 +33,8 @@ export interface LevelSqlOptions {
   folds?: number;
   /** ansi (DuckDB, PostgreSQL, Trino), spark or clickhouse. */
   dialect?: DialectName;
+  /** Values counted as missing (NULL) in every counted column, as scan --missing-like does (engine/missingLike). */
+  missingLike?: readonly string[];
 }
 
 const bad = (message: string) => new TailsiftError("bad_option", message);
@@ -96,9 +99,10 @@ export function levelSql(o: LevelSqlOptions): string {
   const fold = foldExpr(o, d);
   const y = yExpr(o, d);
   const [cColumn, cLevel, cFold, cRows, cNy, cSumY, cSumY2] = ["column", "level", "fold", "rows", "n_y", "sum_y", "sum_y2"].map(d.ident);
+  const missingLike = normaliseMissingLike(o.missingLike);
   const blocks = o.columns.map((c) =>
     `SELECT ${d.literal(c)} AS ${cColumn}, v AS ${cLevel}, f AS ${cFold}, COUNT(*) AS ${cRows}, COUNT(y) AS ${cNy}, SUM(y) AS ${cSumY}, SUM(y * y) AS ${cSumY2}\n`
-    + `FROM (SELECT ${d.toText(d.ident(c))} AS v, ${fold} AS f, ${y} AS y FROM ${table}) AS tailsift_rows\nGROUP BY v, f`);
+    + `FROM (SELECT ${missingLikeSql(d.toText(d.ident(c)), missingLike, d)} AS v, ${fold} AS f, ${y} AS y FROM ${table}) AS tailsift_rows\nGROUP BY v, f`);
   return [
     "-- tailsift level table: (column, level, fold, rows, n_y, sum_y, sum_y2); read it with tailsift scan --levels",
     blocks.join("\nUNION ALL\n"),

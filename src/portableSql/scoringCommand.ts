@@ -7,6 +7,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import { withEngine } from "../engine/db.js";
+import { planMissingLike } from "../engine/missingLike.js";
 import { TailsiftError } from "../errors.js";
 import { readPlan } from "../plan/load.js";
 import { dialectOf, type DialectName } from "./dialects.js";
@@ -49,7 +50,8 @@ export async function scoringQuery(o: ScoringQueryOptions): Promise<{ sql: strin
   if (!Number.isInteger(inlineMax) || inlineMax < 0) throw new TailsiftError("bad_option", `--inline-max must be a whole number ≥ 0 (got ${inlineMax})`);
   const { levelsPath, profile } = readPlan(o.plan, "sql", true);
   const items = await withEngine({ threads: 1, lockToPaths: [path.dirname(path.resolve(levelsPath))] }, (engine) => scoringItems(engine, profile, levelsPath));
-  const result = scoringSql(items, { from: o.from, dialect: dialectOf(o.dialect), inlineMax, rawNames: o.rawNames ?? false });
+  const missingLike = planMissingLike(profile.settings.missingLike, undefined, false);
+  const result = scoringSql(items, { from: o.from, dialect: dialectOf(o.dialect), inlineMax, missingLike, rawNames: o.rawNames ?? false });
   if (result.tables.length > 0) {
     if (o.mappingsOut === undefined) {
       const t = result.tables[0]!;

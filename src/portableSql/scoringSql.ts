@@ -9,7 +9,10 @@
  *  - every mapped encoding: missing → the column's missing value, else the first of: the level's
  *    value, the deepest parent group's value (backoff) or the parent's value (hierarchical), the
  *    fallback (frequency/codes 0, target p, backoff "other", hashed groups width).
+ * A plan scanned with --missing-like (settings.missingLike) reads those values as missing in every
+ * column, encoded or passed through, as encode's input view does (engine/missingLike).
  */
+import { missingLikeSql } from "../engine/missingLike.js";
 import { sqlNumber } from "../engine/sql.js";
 import type { ParentSpec } from "../hierarchy/types.js";
 import type { Dialect } from "./dialects.js";
@@ -24,6 +27,8 @@ export interface ScoringSqlOptions {
   from: string;
   dialect: Dialect;
   inlineMax: number;
+  /** The plan's --missing-like values (normalised); absent or empty: none. */
+  missingLike?: readonly string[];
   /** encode's raw output names (`encode --raw-names`) instead of its safe names. */
   rawNames?: boolean;
 }
@@ -55,8 +60,8 @@ export function mappingTables(sc: ScoringColumn, inlineMax: number): MappingTabl
   }));
 }
 
-function encodedSql(d: Dialect, sc: ScoringColumn, tables: readonly MappingTable[]): string[] {
-  const x = d.toText(`s.${d.ident(sc.column.name)}`);
+function encodedSql(d: Dialect, sc: ScoringColumn, tables: readonly MappingTable[], missingLike: readonly string[]): string[] {
+  const x = missingLikeSql(d.toText(`s.${d.ident(sc.column.name)}`), missingLike, d);
   const flag = (cond: string) => `CASE WHEN ${cond} THEN 1 ELSE 0 END`;
   const spec = sc.column.spec;
   switch (spec.encoding) {
@@ -86,11 +91,13 @@ export function scoringSql(items: readonly ScoringItem[], o: ScoringSqlOptions):
   const exprs: string[] = [];
   const raw: string[] = [];
   const all: MappingTable[] = [];
+  const missingLike = o.missingLike ?? [];
+  const passed = (c: string) => (missingLike.length === 0 ? `s.${d.ident(c)}` : `CASE WHEN ${d.lower(d.trim(d.toText(`s.${d.ident(c)}`)))} IN (${missingLike.map(d.literal).join(", ")}) THEN NULL ELSE s.${d.ident(c)} END`);
   for (const item of items) {
-    if (item.kind === "pass") { exprs.push(`s.${d.ident(item.column)}`); raw.push(item.column); continue; }
+    if (item.kind === "pass") { exprs.push(passed(item.column)); raw.push(item.column); continue; }
     const tables = mappingTables(item.scoring, o.inlineMax);
     all.push(...tables);
-    exprs.push(...encodedSql(d, item.scoring, tables));
+    exprs.push(...encodedSql(d, item.scoring, tables, missingLike));
     raw.push(...item.scoring.outputs);
   }
   const names = scoringOutputNames(raw, o.rawNames ?? false);

@@ -29,7 +29,8 @@ export const ENCODINGS: readonly Encoding[] = [
 ];
 
 export interface DropParams { role?: "constant" | "identifier" }
-export type KeepParams = Record<string, never>;
+/** A time column is kept as the time axis (role "time"); numeric and target columns carry no params. */
+export interface KeepParams { role?: "time" }
 export interface IndicatorParams { one: string | null; zero: string | null }
 export interface OneHotParams { levels: string[] }
 export interface PooledOneHotParams { keep: string[]; other: string; pooledRowShare: number; minRows: number }

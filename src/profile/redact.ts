@@ -33,6 +33,7 @@ function redactColumn(c: ColumnProfile, tag: (v: string) => string): ColumnProfi
     recommendation: { ...withRedactedParams(c.recommendation, tag), reasons: c.recommendation.reasons.map((r) => redactQuoted(r, tag)) },
   };
   if (c.variants) out.variants = { ...c.variants, examples: c.variants.examples.map((g) => g.map(tag)) };
+  if (c.placeholders) out.placeholders = { ...c.placeholders, top: c.placeholders.top.map((l) => ({ ...l, value: tag(l.value) })) };
   if (c.target?.funnel) out.target = { ...c.target, funnel: c.target.funnel.map((f) => ({ ...f, value: t(f.value) })) };
   if (c.evidence) {
     out.evidence = {

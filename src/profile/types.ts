@@ -13,7 +13,7 @@ export type { FoldContract } from "../engine/folds.js";
  * the design in DEVELOPERS.md ("The profile contract"); more may be added, none removed. Shares are fractions in [0, 1].
  */
 
-export type ColumnRole = "categorical" | "identifier" | "constant" | "numeric" | "target" | "excluded";
+export type ColumnRole = "categorical" | "identifier" | "constant" | "numeric" | "time" | "target" | "excluded";
 
 export interface Profile {
   tool: { name: "tailsift"; version: string; engine?: string };
@@ -65,6 +65,8 @@ export interface ProfileSettings {
   collisionBudget?: number;
   /** --max-hash-bits: no hash width above 2^maxHashBits (encode and tailsift sql refuse a wider plan); absent in older profiles. */
   maxHashBits?: number;
+  /** --missing-like: values read as missing in every column (engine/missingLike), normalised. */
+  missingLike?: string[];
   [k: string]: unknown;
 }
 
@@ -129,7 +131,46 @@ export interface ColumnProfile {
   hierarchy?: HierarchyFigures;
   /** Candidate encodings scored out-of-fold and the one-standard-error choice. */
   evidence?: Evidence;
+  /** Numeric columns (role numeric, or identifier when the numbers are a row key): how many values. */
+  numericValues?: NumericValues;
+  /** Time columns (role time): exact range and granularity. */
+  time?: TimeFigures;
+  /** Levels spelled like a missing value ("unknown", "N/A", "[no title]"…), counted beside `missing`. */
+  placeholders?: PlaceholderFigures;
   recommendation: Recommendation;
   /** With --fold-by: the share of rows whose level stays within one entity of the key (engine/keyNesting). */
   keyNesting?: { keyColumns: string[]; share: number };
+}
+
+export interface NumericValues {
+  /** Distinct values: exact (counted in the pass) or over the first `sampledRows` rows. */
+  distinct: number;
+  exact: boolean;
+  sampledRows?: number;
+  /** Every sampled value is an integer. */
+  integer: boolean;
+  /** Exact counts: rows of the most repeated value. */
+  maxRows?: number;
+}
+
+export interface TimeFigures {
+  /** Earliest and latest value as written (offsets ignored): YYYY-MM-DD at day granularity, else YYYY-MM-DD HH:MM:SS[.f]. */
+  min: string | null;
+  max: string | null;
+  granularity: "day" | "hour" | "minute" | "second" | "sub-second";
+  /** Non-missing rows whose value reads as a date or timestamp, and those that do not. */
+  parsedRows: number;
+  unparsedRows: number;
+  /** Share of the sampled non-missing values that read as a time (the role threshold is 0.95). */
+  sampledShare: number;
+  /** Calendar parts worth deriving, e.g. "day of week", "month", "hour". */
+  calendarParts: string[];
+}
+
+export interface PlaceholderFigures {
+  /** Rows and levels whose value is spelled like a missing value (profile/placeholders). */
+  rows: number;
+  levels: number;
+  /** The largest such levels with the list entry each matched. */
+  top: { value: string; rows: number; entry: string }[];
 }

@@ -6,6 +6,7 @@
 import { foldKindText } from "../engine/folds.js";
 import type { ColumnProfile, Profile, Recommendation } from "../profile/types.js";
 import { formatCompact, formatCount, formatNumber, formatShare } from "./format.js";
+import { numericValuesText, passThroughFigures, placeholderFigure, roleNotes } from "./passThroughFigures.js";
 
 /** A labelled figure: label and value are plain text (not escaped). */
 export interface Figure {
@@ -62,14 +63,14 @@ export function decisionText(rec: Recommendation): string {
   return rec.overridden ? `${rec.encoding} ${overrideText(rec)}` : rec.encoding;
 }
 
-/** Whether a column was profiled as levels (numeric, target and excluded columns were not). */
+/** Whether a column was profiled as levels (numeric, time, target and excluded columns were not). */
 export function profiledAsLevels(column: ColumnProfile): boolean {
-  return column.role !== "numeric" && column.role !== "target" && column.role !== "excluded";
+  return column.role !== "numeric" && column.role !== "time" && column.role !== "target" && column.role !== "excluded" && column.numericValues === undefined;
 }
 
 /** Distinct levels for a summary table: "—" for columns not profiled as levels. */
 export function distinctText(column: ColumnProfile): string {
-  return profiledAsLevels(column) ? formatCount(column.distinct) : "—";
+  return profiledAsLevels(column) ? formatCount(column.distinct) : numericValuesText(column) ?? "—";
 }
 
 /** Rows with a share of the total: "1,234 (5.6 %)". */
@@ -81,7 +82,7 @@ function rowsWithShare(rows: number, total: number): string {
  * for columns not profiled as levels). */
 export function keyFigures(column: ColumnProfile, profile: Profile): Figure[] {
   if (!profiledAsLevels(column)) {
-    return [{ label: "rows", value: formatCount(column.rows) }, { label: "missing", value: rowsWithShare(column.missing, column.rows) }];
+    return [{ label: "rows", value: formatCount(column.rows) }, { label: "missing", value: rowsWithShare(column.missing, column.rows) }, ...passThroughFigures(column)];
   }
   const target = profile.settings.coverage ?? 0.95;
   const cover = column.coverage.find((c) => Math.abs(c.share - target) < 1e-9);
@@ -90,6 +91,7 @@ export function keyFigures(column: ColumnProfile, profile: Profile): Figure[] {
   const figures: Figure[] = [
     { label: "rows", value: formatCount(column.rows) },
     { label: "missing", value: rowsWithShare(column.missing, column.rows) },
+    ...(placeholderFigure(column) ? [placeholderFigure(column)!] : []),
     { label: "distinct levels", value: formatCount(column.distinct) },
     { label: "singletons (levels seen once)", value: formatCount(column.singletons) },
     { label: "unseen-level rate (Good–Turing)", value: formatShare(column.unseenRate, 2) + interval },
@@ -152,5 +154,6 @@ export function inputNotes(profile: Profile): string[] {
   if (profile.input.redacted) notes.push("Level values are redacted in this profile: the labels shown are stand-ins, not the values in the data.");
   if (profile.input.fromLevels) notes.push("Profiled from a level table (tailsift sql, then scan --levels), not from the raw rows.");
   if (profile.settings.fold?.kind === "grouped") notes.push(`Folds: ${foldKindText(profile.settings.fold)}.`);
+  notes.push(...roleNotes(profile));
   return notes;
 }

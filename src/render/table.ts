@@ -5,6 +5,7 @@
 import Table from "cli-table3";
 import type { ColumnProfile, Profile } from "../profile/types.js";
 import { formatCount, formatNumber, formatShare } from "./format.js";
+import { numericValuesText, placeholderShareText, timeRangeText } from "./passThroughFigures.js";
 
 function keyParams(c: ColumnProfile): string {
   const rec = c.recommendation;
@@ -20,7 +21,7 @@ function keyParams(c: ColumnProfile): string {
     case "hashing": return `${rec.params.grouping === "backoff" ? "backoff groups, " : ""}w=${formatCount(rec.params.width)}, coll ${formatShare(rec.params.collisionRowShare, 2)}`;
     case "frequency": return `${formatCount(rec.params.tableSize)} levels`;
     case "codes": return `${rec.params.grouping === "backoff" ? "backoff groups, " : ""}${formatCount(rec.params.tableSize)} codes`;
-    default: return "";
+    default: return timeRangeText(c) ?? "";
   }
 }
 
@@ -33,15 +34,18 @@ function rateRange(c: ColumnProfile): string {
 /** The per-column table printed by `scan`. */
 export function renderTable(profile: Profile): string {
   const withTarget = profile.target !== undefined;
-  const head = ["column", "role", "distinct", "missing", "top-1", "95% levels", "unseen", ...(withTarget ? ["top rates", "m", "AUC in/oof"] : []), "advice", "params"];
+  // the missing-like column (rows of placeholder levels) appears only when some column has them
+  const placeholders = profile.columns.some((c) => c.placeholders !== undefined);
+  const head = ["column", "role", "distinct", "missing", ...(placeholders ? ["missing-like"] : []), "top-1", "95% levels", "unseen", ...(withTarget ? ["top rates", "m", "AUC in/oof"] : []), "advice", "params"];
   if (withTarget && profile.target?.kind === "continuous") head[head.indexOf("AUC in/oof")] = "R² in/oof";
   const table = new Table({ head, style: { head: [], border: [], compact: true } });
   for (const c of profile.columns) {
-    const measured = c.role !== "numeric" && c.role !== "target" && c.role !== "excluded";
+    const measured = c.role !== "numeric" && c.role !== "time" && c.role !== "target" && c.role !== "excluded" && c.numericValues === undefined;
     const row: string[] = [
       c.name, c.role,
-      measured ? formatCount(c.distinct) : "",
+      measured ? formatCount(c.distinct) : (numericValuesText(c)?.replace(/ \(.*\)$/, "") ?? ""),
       formatShare(c.rows > 0 ? c.missing / c.rows : 0),
+      ...(placeholders ? [placeholderShareText(c)] : []),
       measured ? formatShare(c.topLevels[0]?.share ?? 0) : "",
       measured ? formatCount(c.coverage.find((x) => x.share === 0.95)?.levels ?? 0) : "",
       measured ? formatShare(c.unseenRate, 2) : "",

@@ -96,10 +96,12 @@ describe("renderDecisionRecord", () => {
 
   it("shows only rows and missing for columns not profiled as levels", () => {
     const md = renderDecisionRecord(loadFixture("binary"));
-    expect(md).toContain("| weight\\_kg | numeric | — | keep | — |");
+    // the number of values of a numeric column is stated (issue 14, point 10): sampled here
+    expect(md).toContain("| weight\\_kg | numeric | ≥ 3,412 (first 50,000 rows) | keep | — |");
     const section = md.slice(md.indexOf("### 11. weight"), md.indexOf("### 12."));
     expect(section).toContain("| missing | 0 (0.0 %) |");
     expect(section).not.toContain("distinct levels");
+    expect(section).toContain("| distinct values | ≥ 3,412 (first 50,000 rows) |");
   });
 
   it("renders a profile without columns", () => {

@@ -138,7 +138,7 @@ describe("the wide pass builds the same level table as the GROUPING SETS pass", 
 });
 
 describe("the wide sample (one unnested query) counts what the batched sample counts", () => {
-  it("250 columns: the same non-missing, number-like and distinct counts as batches of 125 columns", async () => {
+  it("250 columns: the same non-missing, number-like, integer and distinct counts as batches of 125 columns", async () => {
     const { file, levelColumns, countColumns } = shapeCsv({ name: "sample", levelCols: 240, numericCols: 10, rows: 300, target: "binary", folds: 5, seed: 9 });
     const columns = [...levelColumns, ...countColumns];
     await withEngine({ threads: 1 }, async (engine) => {
@@ -150,6 +150,8 @@ describe("the wide sample (one unnested query) counts what the batched sample co
       const raw = fs.readFileSync(file, "utf8").trimEnd().split("\n").slice(1).map((l) => l.replace(/"c,d"/g, "cd").split(","));
       expect(wide.map((w) => w.nonMissing)).toEqual(columns.map((_, j) => raw.filter((r) => r[j] !== "").length));
       expect(wide.filter((w) => w.numberLike === w.nonMissing && w.distinct > 20).map((w) => w.name)).toEqual(countColumns);
+      // the one integer count (numeric identifiers and encode's BIGINT both read it): plain integers of ≤ 18 digits
+      expect(wide.map((w) => w.integerLike)).toEqual(columns.map((_, j) => raw.filter((r) => /^-?(0|[1-9][0-9]{0,17})$/.test(r[j]!)).length));
     });
   });
 });
