@@ -7,16 +7,16 @@
  * docs/bad-input.md): binary data, rows with the wrong number of fields (unless --skip-bad-rows,
  * which skips and counts them), headers with empty or repeated names. Inputs are only read.
  */
-import { createHash } from "node:crypto";
 import fs from "node:fs";
-import path from "node:path";
 import { isTailsiftError, TailsiftError, wrapEngineError } from "../errors.js";
 import { checkCompressedWhole } from "./compressed.js";
 import type { Engine } from "./db.js";
 import { quoteIdent, quoteLiteral, quoteLiteralList } from "./sql.js";
 import { missingLikeSql, normaliseMissingLike } from "./missingLike.js";
 
-export type InputFormat = "csv" | "tsv" | "parquet" | "jsonl";
+import { expand, fingerprintFiles, formatOf, type InputFormat } from "./inputFiles.js";
+
+export { fingerprintFiles, formatOf, type InputFormat };
 
 export interface SourceOptions {
   /** CSV/TSV: skip rows that do not parse (ragged rows, bad quoting) and count them (countSkippedRows). */
@@ -52,67 +52,6 @@ const BUFFER_BYTES = 32 * 2 ** 20;
  * 10,000 columns exceed 23 GB, beyond DuckDB's memory limit).
  */
 export const MAX_MEASURED_COLUMNS = 100_000;
-
-const GLOB_CHARS = /[*?[]/;
-
-/** Infers the format from a file name; .gz/.zst compression is read directly by DuckDB. */
-export function formatOf(file: string): InputFormat | null {
-  const lower = file.toLowerCase().replace(/\.(gz|gzip|zst)$/, "");
-  if (lower.endsWith(".csv") || lower.endsWith(".txt")) return "csv";
-  if (lower.endsWith(".tsv") || lower.endsWith(".tab")) return "tsv";
-  if (lower.endsWith(".parquet") || lower.endsWith(".pq")) return "parquet";
-  if (lower.endsWith(".jsonl") || lower.endsWith(".ndjson") || lower.endsWith(".json")) return "jsonl";
-  return null;
-}
-
-async function expand(engine: Engine, input: string): Promise<string[]> {
-  if (GLOB_CHARS.test(input) && !fs.existsSync(input)) {
-    const rows = await engine.rows<{ file: string }>(
-      "SELECT file FROM glob($pattern) ORDER BY file", `listing files matching '${input}'`, { pattern: input });
-    if (rows.length === 0) {
-      throw new TailsiftError("input_not_found", `no file matches '${input}'; check the pattern and quote it so the shell does not expand it`);
-    }
-    return rows.map((r) => r.file);
-  }
-  let stat: fs.Stats;
-  try {
-    stat = fs.statSync(input);
-  } catch {
-    throw new TailsiftError("input_not_found", `input '${input}' not found; give a file, a glob or a folder of Parquet files`);
-  }
-  if (stat.isDirectory()) {
-    const rows = await engine.rows<{ file: string }>(
-      "SELECT file FROM glob($pattern) ORDER BY file", `listing Parquet files under '${input}'`,
-      { pattern: path.join(input, "**", "*.parquet") });
-    if (rows.length === 0) {
-      throw new TailsiftError("input_is_directory", `'${input}' is a folder with no .parquet files; give files or a glob such as '${path.join(input, "*.csv")}'`);
-    }
-    return rows.map((r) => r.file);
-  }
-  return [input];
-}
-
-/** A cheap identity of the inputs: SHA-256 over each file's name, size and first/last 64 KiB. */
-export function fingerprintFiles(files: readonly string[]): string {
-  const hash = createHash("sha256");
-  for (const file of files) {
-    const size = fs.statSync(file).size;
-    hash.update(`${path.basename(file)}\u0000${size}\u0000`);
-    const fd = fs.openSync(file, "r");
-    try {
-      const len = Math.min(size, 65536);
-      const head = Buffer.alloc(len);
-      fs.readSync(fd, head, 0, len, 0);
-      hash.update(head);
-      const tail = Buffer.alloc(len);
-      fs.readSync(fd, tail, 0, len, Math.max(0, size - len));
-      hash.update(tail);
-    } finally {
-      fs.closeSync(fd);
-    }
-  }
-  return `sha256:${hash.digest("hex").slice(0, 32)}`;
-}
 
 interface ReadMode {
   /** Skip rows that do not parse. */
