@@ -11,7 +11,7 @@ import type { Engine } from "./db.js";
 import { foldSql } from "./folds.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
 import { targetSql } from "./target.js";
-import { readTimeTotals, timePassAggregates, timeTotalsSql, timeValueSql, type TimeTotals } from "./timeColumns.js";
+import { readTimeTotals, timeFlagSql, timePassAggregates, timeTotalsSql, timeValueSql, type TimeTotals } from "./timeColumns.js";
 import { buildWideLevelTable, useWidePass } from "./widePass.js";
 
 export { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
@@ -59,10 +59,14 @@ export function levelPassSql(plan: PassPlan): string {
   const counts = plan.countColumns.map((_, i) => `, count(__n${i})::BIGINT AS __nn${i}`).join("")
     + (plan.timeColumns ?? []).map((_, i) => `, ${timePassAggregates(`__t${i}`, i)}`).join("")
     + (plan.contentColumns ? ", sum(__h)::HUGEINT AS __content" : "");
+  // time columns' granularity flags are computed per row, below the grouping (engine/timeColumns)
+  const flags = (plan.timeColumns ?? []).flatMap((_, i) => timeFlagSql(`__t${i}`, i));
+  const rows = flags.length === 0 ? `(SELECT ${inner.join(", ")} FROM ${plan.view})`
+    : `(SELECT *, ${flags.join(", ")} FROM (SELECT ${inner.join(", ")} FROM ${plan.view}))`;
   return `SELECT (${which})::INTEGER AS col, ${level} AS level, __fold AS fold, count(*)::BIGINT AS rows,
   count(__y)::BIGINT AS n_y, coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${plan.target?.kind === "binary" ? "coalesce(sum(__y), 0)::DOUBLE" : "coalesce(sum(__y * __y), 0)::DOUBLE"} AS sum_y2,
   count(*) FILTER (WHERE __bad)::BIGINT AS bad${counts}
-FROM (SELECT ${inner.join(", ")} FROM ${plan.view})
+FROM ${rows}
 GROUP BY GROUPING SETS (${sets.join(", ")})`;
 }
 

@@ -23,7 +23,7 @@ import { DISTINCT_COL_BASE, LEVEL_TABLE, type PassPlan } from "./passPlan.js";
 import { foldSql } from "./folds.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
 import { targetSql } from "./target.js";
-import { timePassAggregates, timeValueSql } from "./timeColumns.js";
+import { timeFlagNames, timeFlagSql, timePassAggregates, timeValueSql } from "./timeColumns.js";
 
 /**
  * The wide pass is used from this many measured columns on. Measured with bench/wide-crossover.mjs
@@ -60,7 +60,9 @@ export function widePassSql(plan: PassPlan): string {
     ...plan.countColumns.map((c) => `CASE WHEN ${quoteIdent(c)} IS NULL THEN NULL ELSE '' END`),
     ...keys.map((c) => quoteIdent(c)),
   ];
-  const timeCols = times.map((_, i) => `, __t${i}`).join("");
+  const timeCols = times.map((_, i) => `, ${[`__t${i}`, ...timeFlagNames(i)].join(", ")}`).join("");
+  // the granularity flags are computed once per input row, before the unnest (engine/timeColumns)
+  const flags = times.flatMap((_, i) => timeFlagSql(`__t${i}`, i));
   const timeValues = times.map((c, i) => `, ${timeValueSql(quoteIdent(c))} AS __t${i}`).join("");
   const timeAggs = times.map((_, i) => `, ${timePassAggregates(`__t${i}`, i, "col = -1")}`).join("");
   const content = plan.contentColumns ? `, sum(__h) FILTER (WHERE col = -1)::HUGEINT AS __content` : "";
@@ -69,9 +71,10 @@ export function widePassSql(plan: PassPlan): string {
   return `SELECT col, level, __fold AS fold, count(*)::BIGINT AS rows, count(__y)::BIGINT AS n_y,
   coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${y2} AS sum_y2, count(*) FILTER (WHERE __bad)::BIGINT AS bad${timeAggs}${content}
 FROM (SELECT __fold, __y, __bad${timeCols}${plan.contentColumns ? ", __h" : ""}, unnest([${cols.join(", ")}])::INTEGER AS col, unnest(__vals) AS level
-      FROM (SELECT ${foldSql(plan.fold)} AS __fold, ${target.y} AS __y, ${target.bad} AS __bad${timeValues}${hash},
-              [${values.join(", ")}]::VARCHAR[] AS __vals
-            FROM ${plan.view}))
+      FROM (SELECT *${flags.map((f) => `, ${f}`).join("")}
+            FROM (SELECT ${foldSql(plan.fold)} AS __fold, ${target.y} AS __y, ${target.bad} AS __bad${timeValues}${hash},
+                    [${values.join(", ")}]::VARCHAR[] AS __vals
+                  FROM ${plan.view})))
 GROUP BY col, level, __fold`;
 }
 
