@@ -47,8 +47,3 @@ export function quoteLiteralBackslash(value: string): string {
   if (value.includes("\u0000")) throw nulInValue(value);
   return `'${value.replaceAll("\\", "\\\\").replaceAll("'", "\\'")}'`;
 }
-
-/** How identifiers, literals and the text type are written in one SQL dialect. */
-export interface SqlDialect { name: "ansi" | "spark"; ident: (s: string) => string; literal: (s: string) => string; text: string }
-export const ANSI_SQL: SqlDialect = { name: "ansi", ident: quoteIdent, literal: quoteLiteral, text: "VARCHAR" };
-export const SPARK_SQL: SqlDialect = { name: "spark", ident: quoteIdentBacktick, literal: quoteLiteralBackslash, text: "STRING" };
