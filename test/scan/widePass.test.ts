@@ -9,13 +9,14 @@
 import { rowHashFolds, rowHashFoldSql } from "../../src/engine/folds.js";
 import fs from "node:fs";
 import { afterAll, describe, expect, it } from "vitest";
-import { buildLevelTable, LEVEL_TABLE, type PassPlan, type PassTotals } from "../../src/engine/aggregate.js";
+import type { PassPlan } from "../../src/engine/aggregate.js";
 import { withEngine, type Engine } from "../../src/engine/db.js";
 import { openSource } from "../../src/engine/source.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
 import type { TargetSpec } from "../../src/engine/target.js";
 import { useWidePass, WIDE_PASS_MIN_COLUMNS } from "../../src/engine/widePass.js";
 import { sampleColumns } from "../../src/engine/inspect.js";
+import { passIn } from "../helpers/passModes.js";
 import { mulberry32, tempDir, writeFile } from "../helpers/tmp.js";
 
 const dir = tempDir("widepass");
@@ -57,21 +58,8 @@ function shapeCsv(shape: Shape): { file: string; levelColumns: string[]; countCo
 
 type Row = { col: number; level: string | null; fold: number; rows: number; n_y: number; sum_y: number; sum_y2: number; bad: number | null };
 
-async function pass(engine: Engine, plan: PassPlan, mode: "wide" | "grouping"): Promise<{ table: Row[]; totals: PassTotals; wide: boolean }> {
-  const before = process.env.TAILSIFT_PASS;
-  process.env.TAILSIFT_PASS = mode;
-  try {
-    const wide = useWidePass(plan);
-    const totals = await buildLevelTable(engine, plan);
-    const table = await engine.rows<Row>(
-      `SELECT col, level, fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, CASE WHEN col = -1 THEN bad::DOUBLE END AS bad
-       FROM ${LEVEL_TABLE} ORDER BY col, level NULLS FIRST, fold`, "reading the level table");
-    return { table, totals, wide };
-  } finally {
-    if (before === undefined) delete process.env.TAILSIFT_PASS;
-    else process.env.TAILSIFT_PASS = before;
-  }
-}
+const pass = (engine: Engine, plan: PassPlan, mode: "wide" | "grouping") =>
+  passIn<Row>(engine, plan, mode, "col, level, fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, CASE WHEN col = -1 THEN bad::DOUBLE END AS bad");
 
 const SHAPES: Shape[] = [
   { name: "wide-binary", levelCols: 230, numericCols: 3, rows: 400, target: "binary", folds: 5, seed: 1 },

@@ -8,12 +8,13 @@
  */
 import fs from "node:fs";
 import { afterAll, describe, expect, it } from "vitest";
-import { buildLevelTable, LEVEL_TABLE, type PassPlan, type PassTotals } from "../../src/engine/aggregate.js";
+import type { PassPlan } from "../../src/engine/aggregate.js";
 import { withEngine, type Engine } from "../../src/engine/db.js";
 import { rowHashFolds } from "../../src/engine/folds.js";
 import { openSource } from "../../src/engine/source.js";
-import { useWidePass, WIDE_PASS_MIN_COLUMNS } from "../../src/engine/widePass.js";
+import { WIDE_PASS_MIN_COLUMNS } from "../../src/engine/widePass.js";
 import { scan } from "../../src/commands/scan.js";
+import { passIn } from "../helpers/passModes.js";
 import { mulberry32, tempDir, writeFile } from "../helpers/tmp.js";
 
 const dir = tempDir("widepass-roles");
@@ -45,20 +46,8 @@ function rolesCsv(levelCols: number, rows: number, seed: number): { file: string
 
 type Row = { col: number; level: string | null; fold: number; rows: number; n_y: number; sum_y: number };
 
-async function pass(engine: Engine, plan: PassPlan, mode: "wide" | "grouping"): Promise<{ table: Row[]; totals: PassTotals; wide: boolean }> {
-  const before = process.env.TAILSIFT_PASS;
-  process.env.TAILSIFT_PASS = mode;
-  try {
-    const wide = useWidePass(plan);
-    const totals = await buildLevelTable(engine, plan);
-    const table = await engine.rows<Row>(
-      `SELECT col, level, fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y FROM ${LEVEL_TABLE} ORDER BY col, level NULLS FIRST, fold`, "reading the level table");
-    return { table, totals, wide };
-  } finally {
-    if (before === undefined) delete process.env.TAILSIFT_PASS;
-    else process.env.TAILSIFT_PASS = before;
-  }
-}
+const pass = (engine: Engine, plan: PassPlan, mode: "wide" | "grouping") =>
+  passIn<Row>(engine, plan, mode, "col, level, fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y");
 
 describe("the wide pass keeps the time ranges and exact distinct counts of the GROUPING SETS pass", () => {
   it("same level table and totals, and both equal a brute-force recount", async () => {
