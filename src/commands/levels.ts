@@ -17,7 +17,7 @@
 import fs from "node:fs";
 import { DEFAULT_POLICY, validatePolicy, type AdvicePolicy } from "../advice/policy.js";
 import { withEngine, type Engine } from "../engine/db.js";
-import { externalFolds } from "../engine/folds.js";
+import { levelTableFolds } from "../engine/folds.js";
 import { inferKind, levelTableFromLoaded, loadLevelTables } from "../engine/levelInput.js";
 import { fingerprintFiles } from "../engine/source.js";
 import { TailsiftError } from "../errors.js";
@@ -28,7 +28,7 @@ import type { ScanOptions } from "./scan.js";
 import type { PassTotals } from "../engine/aggregate.js";
 
 export type LevelScanOptions = Pick<ScanOptions,
-  "target" | "positive" | "targetKind" | "columns" | "exclude" | "top" | "policy" | "decide" | "levelTableOut"
+  "target" | "positive" | "targetKind" | "columns" | "exclude" | "top" | "policy" | "decide" | "levelTableOut" | "folds" | "seed"
   | "onEngine" | "memoryLimit" | "threads" | "tempDir" | "delimiter">;
 
 function chooseColumns(all: readonly string[], o: LevelScanOptions, targetName: string | undefined): string[] {
@@ -83,10 +83,11 @@ async function scanLevelsWith(engine: Engine, inputs: string[], o: LevelScanOpti
   await levelTableFromLoaded(engine, levelColumns, tableColumns);
 
   const target = targetName !== undefined ? await resolveTargetFromSums(engine, o, totals, targetName) : undefined;
-  const policy: AdvicePolicy = { ...DEFAULT_POLICY, ...o.policy };
-  if (folds >= 2) policy.folds = folds;
-  // the folds came from the user's --fold-expr on the cluster, not from scan's row hash: the
-  // contract says so (external, no key columns), so encode --for training refuses it
+  // the level tables' own folds when they have two or more; else --folds is the K target-kfold
+  // records. The folds came from the user's --fold-expr on the cluster, not from scan's row hash:
+  // the contract says so (external, no key columns), so encode --for training refuses it
+  const fold = levelTableFolds(o, folds);
+  const policy: AdvicePolicy = { ...DEFAULT_POLICY, ...o.policy, folds: fold.k, seed: fold.seed };
   const profile = await adviseFromLevelTable(engine, {
     levelColumns, numeric: [], allColumns: targetName !== undefined ? [...levelColumns, targetName] : levelColumns,
     totals, target, targetColumn: targetName, policy, top: o.top ?? 20, decide: o.decide, levelTableOut: o.levelTableOut,
@@ -94,7 +95,7 @@ async function scanLevelsWith(engine: Engine, inputs: string[], o: LevelScanOpti
     input: { paths: files, rows: totals.rows, bytes: files.reduce((s, f) => s + fs.statSync(f).size, 0),
       fingerprint: fingerprintFiles(files), format: [...formats].join("+"), fromLevels: true },
   });
-  profile.settings.fold = externalFolds(folds, policy.seed);
+  profile.settings.fold = fold.contract;
   profile.settings.levelFolds = folds;
   return profile;
 }

@@ -6,7 +6,7 @@
 import { DEFAULT_POLICY, validatePolicy, type AdvicePolicy } from "../advice/policy.js";
 import { buildLevelTable } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
-import { checkFoldBy, groupedFolds, rowHashFolds, type FoldContract } from "../engine/folds.js";
+import { checkFoldRequest, foldContractFor, type FoldRequest } from "../engine/folds.js";
 import { numberTypeOf, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
 import { normaliseMissingLike } from "../engine/missingLike.js";
 import { checkMeasuredWidth, countSkippedRows, describeFiles, openSource, type Source, type SourceOptions } from "../engine/source.js";
@@ -22,7 +22,7 @@ export { toolVersion } from "../version.js";
 export { adviseFromLevelTable } from "../pipeline/advise.js";
 export { VARIANT_MAX_LEVELS } from "../pipeline/columns.js";
 
-export interface ScanOptions extends EngineOptions, SourceOptions {
+export interface ScanOptions extends EngineOptions, SourceOptions, FoldRequest {
   target?: string;
   positive?: string;
   targetKind?: TargetKind;
@@ -32,12 +32,11 @@ export interface ScanOptions extends EngineOptions, SourceOptions {
   asCategorical?: string[];
   /** Top levels listed per column (display only: the advice reads the full data). */
   top?: number;
-  policy?: Partial<AdvicePolicy>;
+  /** The advice options; K and the seed come from the fold request (folds, seed, foldBy). */
+  policy?: Partial<Omit<AdvicePolicy, "folds" | "seed">>;
   decide?: Record<string, Encoding>;
   /** Write the level table (Parquet) here before the engine closes. */
   levelTableOut?: string;
-  /** Entity-grouped folds: the key columns (--fold-by); absent = row folds. */
-  foldBy?: string[];
   /** Called with the engine while the main pass runs (progress display, cancellation). */
   onEngine?: (engine: Engine | null) => void;
 }
@@ -52,29 +51,34 @@ function checkNames(source: Source, names: readonly string[] | undefined, option
 
 export async function scan(inputs: readonly string[], options: ScanOptions = {}): Promise<Profile> {
   const policy: AdvicePolicy = { ...DEFAULT_POLICY, ...options.policy };
-  const foldOf = (columns: readonly string[]) => rowHashFolds(columns, policy.folds, policy.seed);
-  foldOf([]); // the fold options are checked before anything is read
-  if (options.foldBy !== undefined && options.foldBy.length === 0) checkFoldBy([], []);
+  checkFoldRequest(options); // the fold options are checked before anything is read
+  for (const key of ["folds", "seed"]) {
+    // a library caller of an earlier version may still pass them in the policy: say where they went
+    if (options.policy && key in options.policy) throw new TailsiftError("bad_option", `policy.${key} is no longer read: pass ${key} as a scan option (the fold request)`);
+  }
   validatePolicy(policy);
   return withEngine(options, async (engine) => {
     options.onEngine?.(engine);
     // the level table need not keep row order; letting DuckDB drop it makes the pass ~30 % faster
     await engine.run("SET preserve_insertion_order = false", "configuring the engine");
     try {
-      return await scanWith(engine, inputs, options, policy, foldOf);
+      return await scanWith(engine, inputs, options, policy);
     } finally {
       options.onEngine?.(null);
     }
   });
 }
 
-async function scanWith(engine: Engine, inputs: readonly string[], options: ScanOptions, policy: AdvicePolicy, foldOf: (columns: readonly string[]) => FoldContract): Promise<Profile> {
+async function scanWith(engine: Engine, inputs: readonly string[], options: ScanOptions, basePolicy: AdvicePolicy): Promise<Profile> {
   const source = await openSource(engine, inputs, options);
   checkNames(source, options.columns, "--columns");
   checkNames(source, options.exclude, "--exclude");
   checkNames(source, options.asCategorical, "--as-categorical");
   if (options.target !== undefined) checkNames(source, [options.target], "--target");
-  const foldBy = options.foldBy !== undefined ? checkFoldBy(options.foldBy, source.columns, options.target) : undefined;
+  // the fold of a row reads every column of the input, in file order (or, with --fold-by, the key);
+  // the advice's K (target-kfold, evidence) is the contract's
+  const fold = foldContractFor(options, source.columns, options.target);
+  const policy: AdvicePolicy = { ...basePolicy, folds: fold.k, seed: fold.seed };
   for (const name of Object.keys(options.decide ?? {})) checkNames(source, [name], "--decide");
 
   const chosen = options.columns && options.columns.length > 0 ? new Set(options.columns) : null;
@@ -91,8 +95,6 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
     targetSpec = resolveTarget({ column: options.target, kind: options.targetKind, positive: options.positive }, sampled);
   }
 
-  // the fold of a row reads every column of the input, in file order (or, with --fold-by, the key)
-  const fold = foldBy ? groupedFolds(foldBy, policy.folds, policy.seed) : foldOf(source.columns);
   const totals = await buildLevelTable(engine, {
     view: source.view, levelColumns, countColumns: [...numeric, ...time], timeColumns: time, distinctColumns: distinct, target: targetSpec, fold, contentColumns: source.columns,
   },

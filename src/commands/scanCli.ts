@@ -7,6 +7,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { DEFAULT_POLICY, validatePolicy, type AdvicePolicy } from "../advice/policy.js";
 import type { Engine } from "../engine/db.js";
+import type { FoldRequest } from "../engine/folds.js";
 import { LEVEL_FILE_NAME } from "../engine/levelFile.js";
 import { TailsiftError } from "../errors.js";
 import { readPlan } from "../plan/load.js";
@@ -23,10 +24,10 @@ import { commitOutputs, testPause, throwIfSignalled } from "../runState.js";
 import { scanLevels, type LevelScanOptions } from "./levels.js";
 import { scan } from "./scan.js";
 
-export interface ScanCliOptions {
+export interface ScanCliOptions extends FoldRequest {
   target?: string; positive?: string; targetKind?: "binary" | "continuous";
   columns?: string[]; exclude?: string[]; asCategorical?: string[];
-  folds: number; seed: number; top: number; maxOneHot: number; minLevelRows: number; coverage: number; collisionBudget: number;
+  top: number; maxOneHot: number; minLevelRows: number; coverage: number; collisionBudget: number;
   /** --max-hash-bits: the hash width cap as a power of two (policy.hashMaxBits). */
   maxHashBits?: number;
   minGain?: number;
@@ -39,16 +40,14 @@ export interface ScanCliOptions {
   /** The inputs are level tables (from the query of `tailsift sql`), not raw rows. */
   levels?: boolean;
   redact?: boolean;
-  /** Entity-grouped folds by these key columns. */
-  foldBy?: string[];
 }
 
 interface IO { stdout: (t: string) => void; stderr: (t: string) => void }
 
 /** The advice options the command line gives (scan and scan --levels alike). */
-function policyOptions(o: ScanCliOptions): Partial<AdvicePolicy> {
+function policyOptions(o: ScanCliOptions): Partial<Omit<AdvicePolicy, "folds" | "seed">> {
   return {
-    folds: o.folds, seed: o.seed, maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget,
+    maxOneHot: o.maxOneHot, minLevelRows: o.minLevelRows, coverage: o.coverage, collisionBudget: o.collisionBudget,
     ...(o.minGain !== undefined ? { minGain: o.minGain } : {}), ...(o.maxHashBits !== undefined ? { hashMaxBits: o.maxHashBits } : {}),
   };
 }
@@ -74,16 +73,9 @@ export async function runScan(inputs: string[], o: ScanCliOptions, io: IO, onEng
 }
 
 async function scanAndWrite(inputs: string[], o: ScanCliOptions, io: IO, onEngine: (e: Engine | null) => void, levelTemp: string | undefined): Promise<void> {
+  // the command line's options are scan's own (target, columns, folds, source and engine options)
   const measured = o.levels ? await scanLevels(inputs, { ...levelScanOptions(o, onEngine), levelTableOut: levelTemp }) : await scan(inputs, {
-    target: o.target, positive: o.positive, targetKind: o.targetKind,
-    columns: o.columns, exclude: o.exclude, asCategorical: o.asCategorical, top: o.top,
-    policy: policyOptions(o),
-    decide: o.decide, ...(o.foldBy !== undefined ? { foldBy: o.foldBy } : {}),
-    memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
-    skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter, missingLike: o.missingLike,
-    levelTableOut: levelTemp,
-    lockToPaths: [...inputs, ...(o.out ? [o.out] : [])],
-    onEngine,
+    ...o, policy: policyOptions(o), levelTableOut: levelTemp, lockToPaths: [...inputs, ...(o.out ? [o.out] : [])], onEngine,
   });
   await testPause("after-pass", io.stderr);
   const profile = o.redact ? redactProfile(measured, process.env.TAILSIFT_REDACT_KEY || undefined) : measured;
@@ -141,10 +133,5 @@ export async function runReport(profilePath: string, out: string, io: IO): Promi
 export function levelScanOptions(o: ScanCliOptions, onEngine: (e: Engine | null) => void): LevelScanOptions {
   const refused = [o.foldBy !== undefined ? "--fold-by" : "", o.asCategorical?.length ? "--as-categorical" : "", o.skipBadRows ? "--skip-bad-rows" : "", o.encoding ? "--encoding" : "", o.missingLike?.length ? "--missing-like (give it to tailsift sql)" : ""].filter((x) => x);
   if (refused.length > 0) throw new TailsiftError("bad_option", `${refused.join(", ")} do${refused.length === 1 ? "es" : ""} not apply to --levels: level tables are already counted`);
-  return {
-    target: o.target, positive: o.positive, targetKind: o.targetKind, columns: o.columns, exclude: o.exclude, top: o.top,
-    policy: policyOptions(o),
-    decide: o.decide, memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir, delimiter: o.delimiter,
-    levelTableOut: o.out && !o.redact ? path.join(o.out, LEVEL_FILE_NAME) : undefined, onEngine,
-  };
+  return { ...o, policy: policyOptions(o), levelTableOut: o.out && !o.redact ? path.join(o.out, LEVEL_FILE_NAME) : undefined, onEngine };
 }

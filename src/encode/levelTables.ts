@@ -7,12 +7,10 @@
  * no pass is made; otherwise one GROUP BY pass (the scan's own query) builds it. The plan's own
  * level table (PLAN_LEVELS) is loaded by plan/load, the loader encode shares with drift.
  */
-import { buildLevelTable, LEVEL_TABLE } from "../engine/aggregate.js";
+import { buildLevelTable, LEVEL_TABLE, type PassPlan } from "../engine/aggregate.js";
 import type { Engine } from "../engine/db.js";
-import type { FoldContract } from "../engine/folds.js";
 import { quoteLiteral, sqlNumber } from "../engine/sql.js";
 import { planLevelRowsSql } from "../plan/load.js";
-import type { TargetSpec } from "../engine/target.js";
 import { TailsiftError } from "../errors.js";
 
 export const INPUT_LEVELS = "tailsift_enc_input";
@@ -29,12 +27,8 @@ export async function inputLevelsFromPlan(engine: Engine, levelsPath: string, na
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${INPUT_LEVELS} AS ${select}`, `reading the plan's level table '${levelsPath}'`);
 }
 
-export interface PassSpec {
-  view: string;
-  /** The plan's fold contract in training; a single fold otherwise. */
-  fold: FoldContract;
-  target?: TargetSpec;
-}
+/** The input view, the fold (the plan's contract in training; a single fold otherwise) and the target of the pass. */
+export type PassSpec = Pick<PassPlan, "view" | "fold" | "target">;
 
 /**
  * One pass over the input (engine/aggregate's GROUPING SETS query) for `names`, renamed by
@@ -44,8 +38,7 @@ export interface PassSpec {
  */
 export async function inputLevelsFromPass(engine: Engine, names: readonly string[], pass: PassSpec, doing: string): Promise<number> {
   const totals = await buildLevelTable(engine, {
-    view: pass.view, levelColumns: names, countColumns: [],
-    ...(pass.target ? { target: pass.target } : {}), fold: pass.fold,
+    ...pass, levelColumns: names, countColumns: [],
   }, doing);
   if (pass.target && totals.badTargets > 0) {
     throw new TailsiftError("bad_target", `target '${pass.target.column}': ${totals.badTargets} values do not fit the plan's ${pass.target.kind} target${pass.target.positive !== undefined ? ` (positive '${pass.target.positive}')` : ""}; clean them or rescan`);

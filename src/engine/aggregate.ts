@@ -6,16 +6,14 @@
  * target sums. Rows with col = -1 are the per-fold totals (all rows), which also carry the count
  * of target values that did not fit the target kind and the non-missing count of numeric columns.
  */
-import { contentHashSql, formatContentFingerprint } from "./contentFingerprint.js";
+import { formatContentFingerprint } from "./contentFingerprint.js";
 import type { Engine } from "./db.js";
-import { foldSql } from "./folds.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
-import { targetSql } from "./target.js";
 import { readTimeTotals, timeFlagSql, timePassAggregates, timeTotalsSql, timeValueSql, type TimeTotals } from "./timeColumns.js";
 import { buildWideLevelTable, useWidePass } from "./widePass.js";
 
 export { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
-import { DISTINCT_COL_BASE, LEVEL_TABLE, type PassPlan } from "./passPlan.js";
+import { DISTINCT_COL_BASE, LEVEL_TABLE, rowFieldsSql, type PassPlan } from "./passPlan.js";
 
 export interface PassTotals {
   rows: number;
@@ -35,14 +33,10 @@ export interface PassTotals {
 
 /** The level-table query. For a binary target y ∈ {0, 1}, so Σy² = Σy and is not summed twice. */
 export function levelPassSql(plan: PassPlan): string {
-  const target = plan.target ? targetSql(plan.target) : { y: "NULL::DOUBLE", bad: "false" };
   const inner = [
-    `${foldSql(plan.fold)} AS __fold`,
-    `${target.y} AS __y`,
-    `${target.bad} AS __bad`,
+    ...rowFieldsSql(plan),
     ...plan.levelColumns.map((c, i) => `${quoteIdent(c)} AS __v${i}`),
     ...plan.countColumns.map((c, i) => `${quoteIdent(c)} AS __n${i}`),
-    ...(plan.contentColumns ? [`${contentHashSql(plan.contentColumns)} AS __h`] : []),
     ...(plan.timeColumns ?? []).map((c, i) => `${timeValueSql(quoteIdent(c))} AS __t${i}`),
     ...(plan.distinctColumns ?? []).map((c, i) => `${quoteIdent(c)} AS __k${i}`),
   ];

@@ -77,6 +77,39 @@ export function checkFoldBy(keyColumns: readonly string[], inputColumns: readonl
   return names;
 }
 
+/**
+ * What the user asks for (scan's --folds, --seed, --fold-by, or the library's ScanOptions): the
+ * one input from which the fold contract is made. Absent fields take the defaults.
+ */
+export interface FoldRequest {
+  /** Number of folds (--folds), default DEFAULT_FOLD_COUNT. */
+  folds?: number;
+  /** Seed of the fold hash (--seed), default DEFAULT_FOLD_SEED. */
+  seed?: number;
+  /** Entity-grouped folds by these key columns (--fold-by); absent = row folds. */
+  foldBy?: string[];
+}
+
+/** The checks of a fold request that need no input: made before anything is read or written. */
+export function checkFoldRequest(request: FoldRequest): void {
+  checkFoldCount(request.folds ?? DEFAULT_FOLD_COUNT);
+  checkFoldSeed(request.seed ?? DEFAULT_FOLD_SEED);
+  if (request.foldBy !== undefined && request.foldBy.length === 0) checkFoldBy([], []);
+}
+
+/**
+ * THE fold contract of a scan over raw rows: grouped by the --fold-by key, else a row hash over
+ * every column of the input in file order. Validated here, once.
+ * @throws TailsiftError `bad_option` / `unknown_column` with a one-line reason.
+ */
+export function foldContractFor(request: FoldRequest, inputColumns: readonly string[], target?: string): FoldContract {
+  checkFoldRequest(request);
+  const k = request.folds ?? DEFAULT_FOLD_COUNT;
+  const seed = request.seed ?? DEFAULT_FOLD_SEED;
+  if (request.foldBy !== undefined) return groupedFolds(checkFoldBy(request.foldBy, inputColumns, target), k, seed);
+  return rowHashFolds(inputColumns, k, seed);
+}
+
 /** Entity-grouped folds over the key columns (validated by checkFoldBy first). */
 export function groupedFolds(keyColumns: readonly string[], k: number, seed: number): FoldContract {
   if (keyColumns.length === 0) throw bad("--fold-by needs one or more column names (comma-separated)");
@@ -101,6 +134,17 @@ export function singleFold(): FoldContract {
 /** Folds that came with level tables from the user's fold expression (k = largest fold + 1). */
 export function externalFolds(k: number, seed: number): FoldContract {
   return { kind: "external", hash: EXTERNAL_FOLD_HASH, seed, k, keyColumns: [] };
+}
+
+/**
+ * The folds of an advice made from level tables (`scan --levels`): the tables' own fold column
+ * (external folds: the user's --fold-expr on the cluster) when it has two or more folds; else the
+ * request's K, which only target-kfold's recorded K reads. Validated here, once.
+ */
+export function levelTableFolds(request: FoldRequest, tableFolds: number): { contract: FoldContract; k: number; seed: number } {
+  checkFoldRequest(request);
+  const seed = request.seed ?? DEFAULT_FOLD_SEED;
+  return { contract: externalFolds(tableFolds, seed), k: tableFolds >= 2 ? tableFolds : request.folds ?? DEFAULT_FOLD_COUNT, seed };
 }
 
 /** The SQL text of a row-hash fold over `keyColumns` (the formula behind `foldSql`). */

@@ -1,6 +1,11 @@
-/** engine/passPlan: the level table's name and what the one pass needs (engine/aggregate, engine/widePass). */
-import type { FoldContract } from "./folds.js";
-import type { TargetSpec } from "./target.js";
+/**
+ * engine/passPlan: the level table's name, what the one pass needs (engine/aggregate,
+ * engine/widePass), and the per-row fields both passes read: the fold (from the plan's fold
+ * contract — the only place the pass turns the contract into SQL), the target and the content hash.
+ */
+import { contentHashSql } from "./contentFingerprint.js";
+import { foldSql, type FoldContract } from "./folds.js";
+import { targetSql, type TargetSpec } from "./target.js";
 
 export const LEVEL_TABLE = "tailsift_levels";
 
@@ -25,4 +30,19 @@ export interface PassPlan {
   fold: FoldContract;
   /** All columns in file order: also compute the content fingerprint (engine/contentFingerprint). */
   contentColumns?: readonly string[];
+}
+
+/**
+ * The per-row SELECT items of the pass, shared by both pass shapes: `__fold` (the row's fold by the
+ * plan's contract), `__y` / `__bad` (the target value, and whether it did not fit the target kind)
+ * and, with contentColumns, `__h` (the row's content hash).
+ */
+export function rowFieldsSql(plan: PassPlan): string[] {
+  const target = plan.target ? targetSql(plan.target) : { y: "NULL::DOUBLE", bad: "false" };
+  return [
+    `${foldSql(plan.fold)} AS __fold`,
+    `${target.y} AS __y`,
+    `${target.bad} AS __bad`,
+    ...(plan.contentColumns ? [`${contentHashSql(plan.contentColumns)} AS __h`] : []),
+  ];
 }

@@ -17,12 +17,9 @@
  * computed once, before the unnest, and summed on the totals rows only (__content), as in the
  * GROUPING SETS pass.
  */
-import { contentHashSql } from "./contentFingerprint.js";
 import type { Engine } from "./db.js";
-import { DISTINCT_COL_BASE, LEVEL_TABLE, type PassPlan } from "./passPlan.js";
-import { foldSql } from "./folds.js";
+import { DISTINCT_COL_BASE, LEVEL_TABLE, rowFieldsSql, type PassPlan } from "./passPlan.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
-import { targetSql } from "./target.js";
 import { timeFlagNames, timeFlagSql, timePassAggregates, timeValueSql } from "./timeColumns.js";
 
 /**
@@ -45,7 +42,6 @@ export function useWidePass(plan: PassPlan): boolean {
 
 /** The aggregate of the wide pass, including the totals (-1), numeric-marker (≤ -2) and distinct (≤ DISTINCT_COL_BASE) rows. */
 export function widePassSql(plan: PassPlan): string {
-  const target = plan.target ? targetSql(plan.target) : { y: "NULL::DOUBLE", bad: "false" };
   const keys = plan.distinctColumns ?? [];
   const times = plan.timeColumns ?? [];
   const cols = [
@@ -66,13 +62,12 @@ export function widePassSql(plan: PassPlan): string {
   const timeValues = times.map((c, i) => `, ${timeValueSql(quoteIdent(c))} AS __t${i}`).join("");
   const timeAggs = times.map((_, i) => `, ${timePassAggregates(`__t${i}`, i, "col = -1")}`).join("");
   const content = plan.contentColumns ? `, sum(__h) FILTER (WHERE col = -1)::HUGEINT AS __content` : "";
-  const hash = plan.contentColumns ? `, ${contentHashSql(plan.contentColumns)} AS __h` : "";
   const y2 = plan.target?.kind === "binary" ? "coalesce(sum(__y), 0)::DOUBLE" : "coalesce(sum(__y * __y), 0)::DOUBLE";
   return `SELECT col, level, __fold AS fold, count(*)::BIGINT AS rows, count(__y)::BIGINT AS n_y,
   coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${y2} AS sum_y2, count(*) FILTER (WHERE __bad)::BIGINT AS bad${timeAggs}${content}
 FROM (SELECT __fold, __y, __bad${timeCols}${plan.contentColumns ? ", __h" : ""}, unnest([${cols.join(", ")}])::INTEGER AS col, unnest(__vals) AS level
       FROM (SELECT *${flags.map((f) => `, ${f}`).join("")}
-            FROM (SELECT ${foldSql(plan.fold)} AS __fold, ${target.y} AS __y, ${target.bad} AS __bad${timeValues}${hash},
+            FROM (SELECT ${rowFieldsSql(plan).join(", ")}${timeValues},
                     [${values.join(", ")}]::VARCHAR[] AS __vals
                   FROM ${plan.view})))
 GROUP BY col, level, __fold`;

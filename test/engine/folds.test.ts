@@ -29,12 +29,20 @@ describe("fold contract", () => {
       expect(direct.code).toBe("bad_option");
       expect(direct.message).toBe(`--folds must be an integer from 2 to 100 (got ${k})`);
       expect(thrown(() => levelSql({ columns: ["grp"], from: "t", foldExpr: "id", folds: k })).message).toBe(direct.message);
-      await expect(scan([file], { policy: { folds: k } })).rejects.toThrow(direct.message);
+      await expect(scan([file], { folds: k })).rejects.toThrow(direct.message);
     }
   });
 
+  it("K and the seed are the fold request's: the advice records them, and a policy carrying them is refused", async () => {
+    const p = await scan([file], { target: "y", folds: 3, seed: 5 });
+    expect(p.settings.folds).toBe(3);
+    expect(p.settings.fold?.k).toBe(3);
+    expect(p.settings.fold?.seed).toBe(5);
+    await expect(scan([file], { target: "y", policy: { folds: 3 } as never })).rejects.toThrow(/policy\.folds is no longer read/);
+  });
+
   it("scan writes the contract as settings.fold (row hash over every column, in file order)", async () => {
-    const p = await scan([file], { target: "y", policy: { folds: 4, seed: 9 } });
+    const p = await scan([file], { target: "y", folds: 4, seed: 9 });
     expect(p.settings.fold).toEqual({ kind: "row-hash", hash: "duckdb-hash-of-row-text", seed: 9, k: 4, keyColumns: ["id", "grp", "y"] });
     expect(p.settings.foldColumns).toBeUndefined();
     expect(() => validateProfile(JSON.parse(JSON.stringify(p)))).not.toThrow();
@@ -43,7 +51,7 @@ describe("fold contract", () => {
 
   it("the pass assigns exactly the folds foldSql gives (per-fold row counts of the written level table)", async () => {
     const levels = `${dir}/levels.parquet`;
-    const p = await scan([file], { target: "y", policy: { folds: 4, seed: 9 }, levelTableOut: levels });
+    const p = await scan([file], { target: "y", folds: 4, seed: 9, levelTableOut: levels });
     const fold = readFoldContract(p.settings);
     const [direct, written] = await withEngine({ threads: 1 }, async (e) => [
       await e.rows<{ fold: number; n: number }>(

@@ -42,7 +42,7 @@ describe("entity-grouped folds", () => {
   it("no owner is in two folds: the level table scan writes, and foldSql over the raw rows", async () => {
     const out = path.join(dir, "plan");
     fs.mkdirSync(out);
-    const p = await scan([file], { target: "no_show", foldBy: ["owner_id"], policy: { folds: 5, seed: 7 }, levelTableOut: path.join(out, "..", "levels.staged.parquet") });
+    const p = await scan([file], { target: "no_show", foldBy: ["owner_id"], folds: 5, seed: 7, levelTableOut: path.join(out, "..", "levels.staged.parquet") });
     await writeReportFolder(p, out, { levelTable: path.join(out, "..", "levels.staged.parquet") }); // moved in as one plan set
     expect(p.settings.fold).toEqual({ kind: "grouped", hash: "duckdb-hash-of-key-text", seed: 7, k: 5, keyColumns: ["owner_id"] });
     expect(readFoldContract(JSON.parse(fs.readFileSync(path.join(out, "profile.json"), "utf8")).settings)).toEqual(p.settings.fold);
@@ -64,7 +64,7 @@ describe("entity-grouped folds", () => {
     // every fold has owners (5 folds over 240 owners)
     expect(new Set(rowFolds.map((r) => r.fold)).size).toBe(5);
     // row folds split owners over several folds (the contrast the option exists for)
-    const rowHash = await scan([file], { target: "no_show", policy: { folds: 5, seed: 7 } });
+    const rowHash = await scan([file], { target: "no_show", folds: 5, seed: 7 });
     const split = await withEngine({ threads: 1 }, (e) => e.rows<{ n: number }>(
       `SELECT count(*)::DOUBLE AS n FROM (SELECT owner_id FROM read_csv(${quoteLiteral(file)}, all_varchar = true)
        GROUP BY owner_id HAVING count(DISTINCT ${foldSql(rowHash.settings.fold!)}) > 1)`, "split owners"));
