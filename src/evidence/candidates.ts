@@ -9,7 +9,9 @@ import { quoteLiteral, sqlNumber } from "../engine/sql.js";
 import type { ColumnProfile, TargetKind } from "../profile/types.js";
 import { groupedScoredSql } from "./groupedSql.js";
 import type { Score } from "./scoreSql.js";
-import { scorePredictions } from "./scoreSql.js";
+import { scorePredictions, scorePredictionsByColumn } from "./scoreSql.js";
+import { foldPriorCtes } from "./baseSql.js";
+import { LEVEL_TABLE } from "../engine/aggregate.js";
 import type { EvidenceCandidate, ScoredCandidate } from "./types.js";
 
 /** The scored part of a candidate; AUC or R² only when the score has it. */
@@ -24,6 +26,26 @@ export function scored(score: Score): ScoredCandidate {
 export async function overallMeanCandidate(engine: Engine, col: number, kind: TargetKind): Promise<EvidenceCandidate | null> {
   const score = await scorePredictions(engine, groupedScoredSql(col, "none", 0), kind, "the overall mean");
   return score && { candidate: "overall-mean", params: {}, ...scored(score) };
+}
+
+/**
+ * The overall-mean candidate of every column in `cols`, in one set of statements. Its prediction
+ * is the fold's prior whatever the level, so a column's (level, fold) rows are summed to one row
+ * per (column, fold) first: the loss sums, the squared error and the Mann–Whitney U are linear in
+ * (n, s, s2) at a fixed prediction, so the figures are those of overallMeanCandidate up to the
+ * order of summation. Edge case: a column with no target rows is absent.
+ */
+export async function overallMeanCandidates(engine: Engine, cols: readonly number[], kind: TargetKind): Promise<Map<number, EvidenceCandidate>> {
+  const out = new Map<number, EvidenceCandidate>();
+  if (cols.length === 0) return out;
+  const sql = `WITH ${foldPriorCtes()},
+  cf AS (SELECT col, fold, sum(n_y)::DOUBLE AS n, sum(sum_y)::DOUBLE AS s, sum(sum_y2)::DOUBLE AS s2 FROM ${LEVEL_TABLE}
+         WHERE col IN (${cols.map((c) => sqlNumber(c)).join(", ")}) AND n_y > 0 GROUP BY col, fold)
+  SELECT cf.col, cf.fold, cf.n, cf.s, cf.s2, pf.prior AS pred FROM cf JOIN pf USING (fold)`;
+  for (const [col, score] of await scorePredictionsByColumn(engine, sql, kind, "the overall mean")) {
+    out.set(col, { candidate: "overall-mean", params: {}, ...scored(score) });
+  }
+  return out;
 }
 
 /**

@@ -10,7 +10,7 @@ import type { Engine } from "../engine/db.js";
 import { isTailsiftError } from "../errors.js";
 import type { HierarchyFigures } from "../hierarchy/types.js";
 import type { ColumnProfile, Encoding, ProfileTarget } from "../profile/types.js";
-import { flatCandidate, overallMeanCandidate, pooledCandidate } from "./candidates.js";
+import { flatCandidate, overallMeanCandidate, overallMeanCandidates, pooledCandidate } from "./candidates.js";
 import { backoffCandidate, hierarchicalCandidate } from "./hierarchyCandidates.js";
 import { applyMargin } from "./margin.js";
 import { chooseByOneSeRule } from "./oneSe.js";
@@ -40,12 +40,18 @@ export async function evidenceFor(
   const out = new Map<number, Evidence>();
   const kind = target.kind;
   const metric = kind === "binary" ? "log-loss" : "squared-error";
-  for (const [col, column] of columns.entries()) {
+  const applies = [...columns.entries()].filter(([col, column]) => evidenceApplies(column, hierarchy.get(col))).map(([col]) => col);
+  // the overall mean of every column in one set of statements; column by column if that runs out of memory
+  const overall = await overallMeanCandidates(engine, applies, kind).catch((err: unknown) => {
+    if (isTailsiftError(err) && err.code === "out_of_memory") return null;
+    throw err;
+  });
+  for (const col of applies) {
+    const column = columns[col]!;
     const h = hierarchy.get(col);
-    if (!evidenceApplies(column, h)) continue;
     const built: (EvidenceCandidate | null)[] = [];
     try {
-      built.push(await overallMeanCandidate(engine, col, kind));
+      built.push(overall ? (overall.get(col) ?? null) : await overallMeanCandidate(engine, col, kind));
       const pooledOnly = column.role === "identifier" && !(h?.useful === true && !h.counterLike);
       if (pooledOnly) {
         // identifier without a usable hierarchy: the repeated levels against the column unused
