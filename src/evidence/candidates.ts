@@ -12,6 +12,10 @@ import type { Score } from "./scoreSql.js";
 import { scorePredictions, scorePredictionsByColumn } from "./scoreSql.js";
 import { foldPriorCtes } from "./baseSql.js";
 import { LEVEL_TABLE } from "../engine/aggregate.js";
+import type { FlatOofScores } from "../engine/leakage.js";
+import { aucFromU } from "../stats/aucFromGroups.js";
+import { rSquaredFromSums } from "../stats/rSquaredFromGroups.js";
+import { foldLoss } from "./foldLoss.js";
 import type { EvidenceCandidate, ScoredCandidate } from "./types.js";
 
 /** The scored part of a candidate; AUC or R² only when the score has it. */
@@ -52,14 +56,36 @@ export async function overallMeanCandidates(engine: Engine, cols: readonly numbe
  * Target-kfold with the column's fitted m. No detectable spread (weight null) is scored at its
  * limit m → ∞: every level predicts the other folds' prior (not m = 0, the raw level means).
  */
-export async function flatCandidate(engine: Engine, col: number, column: ColumnProfile, kind: TargetKind, policy: AdvicePolicy): Promise<EvidenceCandidate | null> {
+export async function flatCandidate(engine: Engine, col: number, column: ColumnProfile, kind: TargetKind, policy: AdvicePolicy, shared?: FlatOofScores): Promise<EvidenceCandidate | null> {
   const weight = column.target ? column.target.prior.weight : null;
-  const score = await scorePredictions(engine, groupedScoredSql(col, "identity", weight), kind, "flat target encoding");
+  const reused = shared && shared.weights.has(col) && shared.weights.get(col) === weight ? sharedFlatScore(shared, col, kind) : undefined;
+  const score = reused !== undefined ? reused : await scorePredictions(engine, groupedScoredSql(col, "identity", weight), kind, "flat target encoding");
   return score && {
     candidate: "target-kfold",
     params: { weight, folds: policy.folds, seed: policy.seed, priorMean: column.target?.prior.mean ?? null, fallback: "prior mean" },
     ...scored(score),
   };
+}
+
+/**
+ * The flat candidate's score from the leakage statement (engine/leakage leakageScores): the same
+ * predictions — the other folds' level sums shrunk with the same m toward the same fold prior,
+ * missing values at the fold prior — summed per fold there, and the out-of-fold Mann–Whitney sums
+ * of the leakage figure are those of the flat candidate's predictions. undefined when the column
+ * was not scored there (its evidence is then predicted again).
+ */
+function sharedFlatScore(shared: FlatOofScores, col: number, kind: TargetKind): Score | null | undefined {
+  const folds = shared.folds.get(col);
+  const oof = shared.sums.find((s) => s.col === col && s.mode === "oof");
+  if (!folds || !oof) return undefined;
+  const summary = foldLoss(folds);
+  if (!summary) return null;
+  const rows = folds.reduce((s, f) => s + f.rows, 0);
+  if (kind === "binary") return { ...summary, rows, auc: aucFromU(oof) };
+  const n = rows;
+  const sy = folds.reduce((s, f) => s + f.sumY, 0);
+  const sy2 = folds.reduce((s, f) => s + f.sumY2, 0);
+  return { ...summary, rows, r2: rSquaredFromSums(folds.reduce((s, f) => s + f.loss, 0), sy2 - (sy * sy) / n) };
 }
 
 /**

@@ -3,10 +3,13 @@
  * column with a target whose recommendation is target-kfold, frequency or pooled-one-hot (or an
  * identifier-like column: with a useful hierarchy the hierarchy candidates, else pooled target
  * encoding), scores every applicable candidate out-of-fold from the level table and applies the
- * one-standard-error rule, then the practical margin (evidence/margin, policy.minGain).
+ * one-standard-error rule, then the practical margin (evidence/margin, policy.minGain). The
+ * overall mean is scored for all columns in one set of statements; the flat target encoding is
+ * taken from the leakage statement's out-of-fold scores when given (`sharedFlat`).
  */
 import type { AdvicePolicy } from "../advice/policy.js";
 import type { Engine } from "../engine/db.js";
+import type { FlatOofScores } from "../engine/leakage.js";
 import { isTailsiftError } from "../errors.js";
 import type { HierarchyFigures } from "../hierarchy/types.js";
 import type { ColumnProfile, Encoding, ProfileTarget } from "../profile/types.js";
@@ -35,7 +38,7 @@ export function evidenceApplies(column: ColumnProfile, hierarchy: HierarchyFigur
  */
 export async function evidenceFor(
   engine: Engine, columns: readonly ColumnProfile[], target: ProfileTarget, policy: AdvicePolicy,
-  hierarchy: ReadonlyMap<number, HierarchyFigures>, skipped?: Set<number>,
+  hierarchy: ReadonlyMap<number, HierarchyFigures>, skipped?: Set<number>, sharedFlat?: FlatOofScores,
 ): Promise<Map<number, Evidence>> {
   const out = new Map<number, Evidence>();
   const kind = target.kind;
@@ -58,7 +61,7 @@ export async function evidenceFor(
         built.push(await pooledTargetCandidate(engine, col, column, kind, policy));
       } else {
         built.push(await pooledCandidate(engine, col, column, kind, policy));
-        built.push(await flatCandidate(engine, col, column, kind, policy));
+        built.push(await flatCandidate(engine, col, column, kind, policy, sharedFlat));
       }
       if (h && !h.counterLike && !pooledOnly) {
         built.push(await backoffCandidate(engine, col, column, h, kind, policy));
