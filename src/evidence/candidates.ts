@@ -99,8 +99,9 @@ export async function pooledCandidate(engine: Engine, col: number, column: Colum
      ORDER BY rows DESC, level LIMIT ${sqlNumber(Math.max(1, policy.maxOneHot - 1))}`, "choosing the pooled one-hot levels");
   if (kept.length === 0) return null;
   const list = kept.map((k) => quoteLiteral(k.level)).join(", ");
-  const mapping = { sql: `SELECT level, CASE WHEN level IN (${list}) THEN 0 ELSE -1 END AS gd, CASE WHEN level IN (${list}) THEN level ELSE '' END AS gk
-    FROM ${LEVEL_TOTALS} WHERE col = ${sqlNumber(col)} AND level IS NOT NULL` };
+  const mapping = { sql: `SELECT level, CASE WHEN level IN (${list}) THEN 0 ELSE -1 END AS gd, CASE WHEN level IN (${list}) THEN level ELSE '' END AS gk,
+      n_y, sum_y, sum_y2, single_fold
+    FROM ${LEVEL_TOTALS} WHERE col = ${sqlNumber(col)} AND level IS NOT NULL`, carriesTotals: true as const };
   const score = await scorePredictions(engine, groupedScoredSql(col, mapping, 0), kind, "pooled one-hot");
   const nonMissing = column.rows - column.missing;
   const keptRows = kept.reduce((s, k) => s + k.rows, 0);
