@@ -16,7 +16,7 @@ import type { TargetKind } from "./target.js";
 import type { Engine } from "./db.js";
 import { LEVEL_TABLE } from "./aggregate.js";
 import { LEVEL_TOTALS } from "./levels.js";
-import { mannWhitneyUSql, mEstimateSql } from "./formulaSql.js";
+import { logLossSql, mannWhitneyUSql, mEstimateSql } from "./formulaSql.js";
 import { sqlNumber } from "./sql.js";
 
 export interface LeakageSums {
@@ -32,45 +32,116 @@ export interface LeakageSums {
   rows: number;
 }
 
-/** A weight of null is m = ∞ (no detectable spread): every level scores the prior. */
+/**
+ * One column's flat target encoding scored out-of-fold, per fold (the rows the leakage's
+ * out-of-fold figure is summed over): the loss — log loss (binary) or squared error (continuous) —
+ * and the target sums. evidence/candidates builds the flat candidate from these instead of
+ * predicting the same values again.
+ */
+export interface OofFoldSums { col: number; fold: number; rows: number; loss: number; sumY: number; sumY2: number }
+
+/**
+ * The flat target encoding scored out-of-fold by the leakage statement, handed to the evidence
+ * (evidence/candidates flatCandidate reuses it when the weight is the one it would use): the
+ * weight each column was scored at, its per-fold sums and its out-of-fold Mann–Whitney sums.
+ */
+export interface FlatOofScores { weights: ReadonlyMap<number, number | null>; folds: ReadonlyMap<number, OofFoldSums[]>; sums: readonly LeakageSums[] }
+
+export interface LeakageScores {
+  sums: LeakageSums[];
+  oofFolds: OofFoldSums[];
+  /** True when every fold's prior (the other folds' mean) is defined: the other folds have target rows. */
+  priorsDefined: boolean;
+}
+
+/**
+ * The scored rows, as three CTEs over the level table and its totals (LEVEL_TOTALS):
+ *   ins(col, score, n, s, s2)        in-sample, one row per level (the in-sample value does not
+ *                                    depend on the fold, so the level totals suffice);
+ *   oofg(col, fold, score, n, s, s2) out-of-fold, summed by (column, fold, value). A level whose
+ *                                    target rows all sit in one fold (LEVEL_TOTALS.single_fold) has
+ *                                    no other-fold rows: its value is that fold's prior, so this tail
+ *                                    is summed from the totals by fold, not joined row by row; the
+ *                                    missing level takes the fold's prior too. Only the other levels'
+ *                                    (level, fold) rows are joined to their totals (an equality join).
+ * The fold priors are computed once per fold (fp). A weight of null is m = ∞ (no detectable
+ * spread): every level scores the prior.
+ */
 function scoredSql(weights: ReadonlyMap<number, number | null>): string {
   const values = [...weights].map(([col, m]) => `(${sqlNumber(col)}, ${m === null ? "NULL" : sqlNumber(m)}::DOUBLE)`).join(", ");
+  const cols = [...weights.keys()].map((c) => sqlNumber(c)).join(", ");
   return `w(col, m) AS (VALUES ${values}),
   ft AS (SELECT fold, n_y::DOUBLE AS fn, sum_y AS fs FROM ${LEVEL_TABLE} WHERE col = -1),
   g AS (SELECT sum(fn) AS tn, sum(fs) AS ts FROM ft),
-  lv AS (
-    SELECT l.col, l.level, l.fold, l.n_y::DOUBLE AS n_y, l.sum_y, l.sum_y2, t.n_y::DOUBLE AS tn_level, t.sum_y AS ts_level, w.m
-    FROM ${LEVEL_TABLE} l
-    JOIN ${LEVEL_TOTALS} t ON l.col = t.col AND l.level IS NOT DISTINCT FROM t.level
-    JOIN w ON l.col = w.col
-    WHERE l.col >= 0 AND l.n_y > 0),
-  scored AS (
-    SELECT lv.col, lv.n_y, lv.sum_y, lv.sum_y2,
-      CASE WHEN lv.level IS NULL THEN g.ts / g.tn
-           ELSE ${mEstimateSql("lv.ts_level", "lv.tn_level", "lv.m", "g.ts / g.tn")} END AS s_in,
-      CASE WHEN lv.level IS NULL THEN (g.ts - ft.fs) / (g.tn - ft.fn)
-           ELSE ${mEstimateSql("(lv.ts_level - lv.sum_y)", "(lv.tn_level - lv.n_y)", "lv.m", "(g.ts - ft.fs) / (g.tn - ft.fn)")} END AS s_oof
-    FROM lv JOIN ft USING (fold) CROSS JOIN g)`;
+  fp AS (SELECT ft.fold, (g.ts - ft.fs) / (g.tn - ft.fn) AS prior FROM ft CROSS JOIN g),
+  tl AS (
+    SELECT t.col, t.level, t.n_y::DOUBLE AS tn, t.sum_y AS ts, t.sum_y2 AS ts2, t.single_fold, w.m
+    FROM ${LEVEL_TOTALS} t JOIN w ON t.col = w.col WHERE t.n_y > 0),
+  ins AS (
+    SELECT tl.col, CASE WHEN tl.level IS NULL THEN g.ts / g.tn ELSE ${mEstimateSql("tl.ts", "tl.tn", "tl.m", "g.ts / g.tn")} END AS score,
+      tl.tn AS n, tl.ts AS s, tl.ts2 AS s2
+    FROM tl CROSS JOIN g),
+  multi AS (
+    SELECT l.col, l.fold, l.n_y::DOUBLE AS n, l.sum_y AS s, l.sum_y2 AS s2,
+      ${mEstimateSql("(tl.ts - l.sum_y)", "(tl.tn - l.n_y)", "tl.m", "fp.prior")} AS score
+    FROM ${LEVEL_TABLE} l JOIN tl ON l.col = tl.col AND l.level = tl.level JOIN fp ON fp.fold = l.fold
+    WHERE tl.single_fold IS NULL AND l.n_y > 0),
+  missing AS (
+    SELECT l.col, l.fold, l.n_y::DOUBLE AS n, l.sum_y AS s, l.sum_y2 AS s2, fp.prior AS score
+    FROM ${LEVEL_TABLE} l JOIN fp ON fp.fold = l.fold WHERE l.level IS NULL AND l.col IN (${cols}) AND l.n_y > 0),
+  tail AS (
+    SELECT tl.col, tl.single_fold AS fold, tl.tn AS n, tl.ts AS s, tl.ts2 AS s2, fp.prior AS score
+    FROM tl JOIN fp ON fp.fold = tl.single_fold WHERE tl.level IS NOT NULL),
+  oofg AS MATERIALIZED (
+    SELECT col, fold, score, sum(n) AS n, sum(s) AS s, sum(s2) AS s2
+    FROM (SELECT * FROM multi UNION ALL SELECT * FROM missing UNION ALL SELECT * FROM tail) GROUP BY col, fold, score)`;
 }
 
 /** In-sample and out-of-fold sums for every column in `weights` (col → m used; null = ∞). */
 export async function leakageSums(engine: Engine, weights: ReadonlyMap<number, number | null>, kind: TargetKind): Promise<LeakageSums[]> {
-  if (weights.size === 0) return [];
+  return (await leakageScores(engine, weights, kind)).sums;
+}
+
+/**
+ * The leakage sums and, from the same statement, the flat encoding's out-of-fold loss per
+ * (column, fold) (OofFoldSums).
+ */
+export async function leakageScores(engine: Engine, weights: ReadonlyMap<number, number | null>, kind: TargetKind): Promise<LeakageScores> {
+  if (weights.size === 0) return { sums: [], oofFolds: [], priorsDefined: false };
+  const [p] = await engine.rows<{ defined: boolean | null }>(
+    `WITH ft AS (SELECT n_y::DOUBLE AS fn FROM ${LEVEL_TABLE} WHERE col = -1) SELECT bool_and((SELECT sum(fn) FROM ft) - fn > 0) AS defined FROM ft`,
+    "checking the fold priors");
+  const priorsDefined = p?.defined === true;
+  const foldLoss = kind === "binary" ? logLossSql("s", "(n - s)", "score") : "s2 - 2 * score * s + n * score * score";
+  const folds = `SELECT col, 'fold' AS mode, fold, 0::DOUBLE AS u, 0::DOUBLE AS positives, 0::DOUBLE AS negatives,
+         sum(${foldLoss})::DOUBLE AS sse, sum(n)::DOUBLE AS rows, sum(s)::DOUBLE AS sumY, sum(s2)::DOUBLE AS sumY2 FROM oofg GROUP BY col, fold`;
+  let rows: (Omit<LeakageSums, "mode"> & { mode: "in" | "oof" | "fold"; fold: number | null; sumY: number | null; sumY2: number | null })[];
   if (kind === "continuous") {
-    return engine.rows<LeakageSums>(
+    rows = await engine.rows(
       `WITH ${scoredSql(weights)}
-       SELECT col, 'in' AS mode, 0::DOUBLE AS u, 0::DOUBLE AS positives, 0::DOUBLE AS negatives,
-              sum(sum_y2 - 2 * s_in * sum_y + n_y * s_in * s_in) AS sse, sum(n_y) AS rows FROM scored GROUP BY col
+       SELECT col, 'in' AS mode, NULL::INTEGER AS fold, 0::DOUBLE AS u, 0::DOUBLE AS positives, 0::DOUBLE AS negatives,
+              sum(s2 - 2 * score * s + n * score * score) AS sse, sum(n) AS rows, NULL::DOUBLE AS sumY, NULL::DOUBLE AS sumY2 FROM ins GROUP BY col
        UNION ALL
-       SELECT col, 'oof', 0, 0, 0, sum(sum_y2 - 2 * s_oof * sum_y + n_y * s_oof * s_oof), sum(n_y) FROM scored GROUP BY col
-       ORDER BY col, mode`, "scoring the encodings in-sample and out-of-fold");
+       SELECT col, 'oof', NULL, 0, 0, 0, sum(s2 - 2 * score * s + n * score * score), sum(n), NULL, NULL FROM oofg GROUP BY col
+       UNION ALL ${folds}
+       ORDER BY col, mode, fold`, "scoring the encodings in-sample and out-of-fold");
+  } else {
+    const grouped = `SELECT col, 'in' AS mode, score, sum(s) AS pos, sum(n - s) AS neg FROM ins GROUP BY col, score
+       UNION ALL
+       SELECT col, 'oof', score, sum(s), sum(n - s) FROM oofg GROUP BY col, score`;
+    rows = await engine.rows(
+      `WITH ${scoredSql(weights)},
+       mw AS (${mannWhitneyUSql(grouped, ["col", "mode"])})
+       SELECT col, mode, NULL::INTEGER AS fold, u, positives, negatives, 0::DOUBLE AS sse, positives + negatives AS rows, NULL::DOUBLE AS sumY, NULL::DOUBLE AS sumY2 FROM mw
+       UNION ALL ${folds}
+       ORDER BY col, mode, fold`,
+      "scoring the encodings in-sample and out-of-fold");
   }
-  const grouped = `SELECT col, 'in' AS mode, s_in AS score, sum(sum_y) AS pos, sum(n_y - sum_y) AS neg FROM scored GROUP BY col, s_in
-       UNION ALL
-       SELECT col, 'oof', s_oof, sum(sum_y), sum(n_y - sum_y) FROM scored GROUP BY col, s_oof`;
-  return engine.rows<LeakageSums>(
-    `WITH ${scoredSql(weights)},
-     mw AS (${mannWhitneyUSql(grouped, ["col", "mode"])})
-     SELECT col, mode, u, positives, negatives, 0::DOUBLE AS sse, positives + negatives AS rows FROM mw ORDER BY col, mode`,
-    "scoring the encodings in-sample and out-of-fold");
+  const sums: LeakageSums[] = [];
+  const oofFolds: OofFoldSums[] = [];
+  for (const r of rows) {
+    if (r.mode === "fold") oofFolds.push({ col: r.col, fold: r.fold ?? 0, rows: r.rows, loss: r.sse, sumY: r.sumY ?? 0, sumY2: r.sumY2 ?? 0 });
+    else sums.push({ col: r.col, mode: r.mode === "in" ? "in" : "oof", u: r.u, positives: r.positives, negatives: r.negatives, sse: r.sse, rows: r.rows });
+  }
+  return { sums, oofFolds, priorsDefined };
 }

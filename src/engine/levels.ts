@@ -20,10 +20,18 @@ export interface ColumnLevelSummary {
   top: LevelRow[];
 }
 
-/** Sums the level table over folds: one row per (column, level). */
+/**
+ * Sums the level table over folds: one row per (column, level). `single_fold` is the fold that
+ * holds all of the level's target rows when they sit in one fold (NULL when they span several,
+ * or there are none): such a level has no other-fold rows, so its out-of-fold encoding is that
+ * fold's prior in closed form (engine/leakage, evidence/groupedSql aggregate that tail by fold
+ * instead of joining its rows).
+ */
 export async function buildLevelTotals(engine: Engine): Promise<void> {
+  const inFolds = "FILTER (WHERE n_y > 0)";
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TOTALS} AS
-    SELECT col, level, sum(rows)::BIGINT AS rows, sum(n_y)::BIGINT AS n_y, sum(sum_y)::DOUBLE AS sum_y, sum(sum_y2)::DOUBLE AS sum_y2
+    SELECT col, level, sum(rows)::BIGINT AS rows, sum(n_y)::BIGINT AS n_y, sum(sum_y)::DOUBLE AS sum_y, sum(sum_y2)::DOUBLE AS sum_y2,
+      CASE WHEN min(fold) ${inFolds} = max(fold) ${inFolds} THEN min(fold) ${inFolds} END::INTEGER AS single_fold
     FROM ${LEVEL_TABLE} WHERE col >= 0 GROUP BY col, level`, "summing levels over folds");
 }
 

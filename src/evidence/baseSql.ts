@@ -10,11 +10,16 @@
 import { LEVEL_TABLE } from "../engine/aggregate.js";
 import { sqlNumber } from "../engine/sql.js";
 
-/** The shared CTE text (without the leading WITH). */
-export function baseCtes(col: number): string {
+/** ft, g and pf alone (without the leading WITH): one row per fold, for every column. */
+export function foldPriorCtes(): string {
   return `ft AS (SELECT fold, sum(n_y)::DOUBLE AS fn, sum(sum_y)::DOUBLE AS fs FROM ${LEVEL_TABLE} WHERE col = -1 GROUP BY fold),
   g AS (SELECT sum(fn) AS gn, sum(fs) AS gs FROM ft),
-  pf AS (SELECT ft.fold, CASE WHEN g.gn - ft.fn > 0 THEN (g.gs - ft.fs) / (g.gn - ft.fn) ELSE g.gs / g.gn END AS prior FROM ft CROSS JOIN g),
+  pf AS (SELECT ft.fold, CASE WHEN g.gn - ft.fn > 0 THEN (g.gs - ft.fs) / (g.gn - ft.fn) ELSE g.gs / g.gn END AS prior FROM ft CROSS JOIN g)`;
+}
+
+/** The shared CTE text (without the leading WITH). */
+export function baseCtes(col: number): string {
+  return `${foldPriorCtes()},
   lf AS (SELECT level, fold, sum(n_y)::DOUBLE AS n, sum(sum_y)::DOUBLE AS s, sum(sum_y2)::DOUBLE AS s2
          FROM ${LEVEL_TABLE} WHERE col = ${sqlNumber(col)} AND n_y > 0 GROUP BY level, fold)`;
 }

@@ -9,7 +9,13 @@ import { quoteLiteral, sqlNumber } from "../engine/sql.js";
 import type { ColumnProfile, TargetKind } from "../profile/types.js";
 import { groupedScoredSql } from "./groupedSql.js";
 import type { Score } from "./scoreSql.js";
-import { scorePredictions } from "./scoreSql.js";
+import { scorePredictions, scorePredictionsByColumn } from "./scoreSql.js";
+import { foldPriorCtes } from "./baseSql.js";
+import { LEVEL_TABLE } from "../engine/aggregate.js";
+import type { FlatOofScores } from "../engine/leakage.js";
+import { aucFromU } from "../stats/aucFromGroups.js";
+import { rSquaredFromSums } from "../stats/rSquaredFromGroups.js";
+import { foldLoss } from "./foldLoss.js";
 import type { EvidenceCandidate, ScoredCandidate } from "./types.js";
 
 /** The scored part of a candidate; AUC or R² only when the score has it. */
@@ -27,17 +33,59 @@ export async function overallMeanCandidate(engine: Engine, col: number, kind: Ta
 }
 
 /**
+ * The overall-mean candidate of every column in `cols`, in one set of statements. Its prediction
+ * is the fold's prior whatever the level, so a column's (level, fold) rows are summed to one row
+ * per (column, fold) first: the loss sums, the squared error and the Mann–Whitney U are linear in
+ * (n, s, s2) at a fixed prediction, so the figures are those of overallMeanCandidate up to the
+ * order of summation. Edge case: a column with no target rows is absent.
+ */
+export async function overallMeanCandidates(engine: Engine, cols: readonly number[], kind: TargetKind): Promise<Map<number, EvidenceCandidate>> {
+  const out = new Map<number, EvidenceCandidate>();
+  if (cols.length === 0) return out;
+  const sql = `WITH ${foldPriorCtes()},
+  cf AS (SELECT col, fold, sum(n_y)::DOUBLE AS n, sum(sum_y)::DOUBLE AS s, sum(sum_y2)::DOUBLE AS s2 FROM ${LEVEL_TABLE}
+         WHERE col IN (${cols.map((c) => sqlNumber(c)).join(", ")}) AND n_y > 0 GROUP BY col, fold)
+  SELECT cf.col, cf.fold, cf.n, cf.s, cf.s2, pf.prior AS pred FROM cf JOIN pf USING (fold)`;
+  for (const [col, score] of await scorePredictionsByColumn(engine, sql, kind, "the overall mean")) {
+    out.set(col, { candidate: "overall-mean", params: {}, ...scored(score) });
+  }
+  return out;
+}
+
+/**
  * Target-kfold with the column's fitted m. No detectable spread (weight null) is scored at its
  * limit m → ∞: every level predicts the other folds' prior (not m = 0, the raw level means).
  */
-export async function flatCandidate(engine: Engine, col: number, column: ColumnProfile, kind: TargetKind, policy: AdvicePolicy): Promise<EvidenceCandidate | null> {
+export async function flatCandidate(engine: Engine, col: number, column: ColumnProfile, kind: TargetKind, policy: AdvicePolicy, shared?: FlatOofScores): Promise<EvidenceCandidate | null> {
   const weight = column.target ? column.target.prior.weight : null;
-  const score = await scorePredictions(engine, groupedScoredSql(col, "identity", weight), kind, "flat target encoding");
+  const reused = shared && shared.weights.has(col) && shared.weights.get(col) === weight ? sharedFlatScore(shared, col, kind) : undefined;
+  const score = reused !== undefined ? reused : await scorePredictions(engine, groupedScoredSql(col, "identity", weight), kind, "flat target encoding");
   return score && {
     candidate: "target-kfold",
     params: { weight, folds: policy.folds, seed: policy.seed, priorMean: column.target?.prior.mean ?? null, fallback: "prior mean" },
     ...scored(score),
   };
+}
+
+/**
+ * The flat candidate's score from the leakage statement (engine/leakage leakageScores): the same
+ * predictions — the other folds' level sums shrunk with the same m toward the same fold prior,
+ * missing values at the fold prior — summed per fold there, and the out-of-fold Mann–Whitney sums
+ * of the leakage figure are those of the flat candidate's predictions. undefined when the column
+ * was not scored there (its evidence is then predicted again).
+ */
+function sharedFlatScore(shared: FlatOofScores, col: number, kind: TargetKind): Score | null | undefined {
+  const folds = shared.folds.get(col);
+  const oof = shared.sums.find((s) => s.col === col && s.mode === "oof");
+  if (!folds || !oof) return undefined;
+  const summary = foldLoss(folds);
+  if (!summary) return null;
+  const rows = folds.reduce((s, f) => s + f.rows, 0);
+  if (kind === "binary") return { ...summary, rows, auc: aucFromU(oof) };
+  const n = rows;
+  const sy = folds.reduce((s, f) => s + f.sumY, 0);
+  const sy2 = folds.reduce((s, f) => s + f.sumY2, 0);
+  return { ...summary, rows, r2: rSquaredFromSums(folds.reduce((s, f) => s + f.loss, 0), sy2 - (sy * sy) / n) };
 }
 
 /**
@@ -51,8 +99,9 @@ export async function pooledCandidate(engine: Engine, col: number, column: Colum
      ORDER BY rows DESC, level LIMIT ${sqlNumber(Math.max(1, policy.maxOneHot - 1))}`, "choosing the pooled one-hot levels");
   if (kept.length === 0) return null;
   const list = kept.map((k) => quoteLiteral(k.level)).join(", ");
-  const mapping = { sql: `SELECT level, CASE WHEN level IN (${list}) THEN 0 ELSE -1 END AS gd, CASE WHEN level IN (${list}) THEN level ELSE '' END AS gk
-    FROM ${LEVEL_TOTALS} WHERE col = ${sqlNumber(col)} AND level IS NOT NULL` };
+  const mapping = { sql: `SELECT level, CASE WHEN level IN (${list}) THEN 0 ELSE -1 END AS gd, CASE WHEN level IN (${list}) THEN level ELSE '' END AS gk,
+      n_y, sum_y, sum_y2, single_fold
+    FROM ${LEVEL_TOTALS} WHERE col = ${sqlNumber(col)} AND level IS NOT NULL`, carriesTotals: true as const };
   const score = await scorePredictions(engine, groupedScoredSql(col, mapping, 0), kind, "pooled one-hot");
   const nonMissing = column.rows - column.missing;
   const keptRows = kept.reduce((s, k) => s + k.rows, 0);

@@ -3,14 +3,17 @@
  * column with a target whose recommendation is target-kfold, frequency or pooled-one-hot (or an
  * identifier-like column: with a useful hierarchy the hierarchy candidates, else pooled target
  * encoding), scores every applicable candidate out-of-fold from the level table and applies the
- * one-standard-error rule, then the practical margin (evidence/margin, policy.minGain).
+ * one-standard-error rule, then the practical margin (evidence/margin, policy.minGain). The
+ * overall mean is scored for all columns in one set of statements; the flat target encoding is
+ * taken from the leakage statement's out-of-fold scores when given (`sharedFlat`).
  */
 import type { AdvicePolicy } from "../advice/policy.js";
 import type { Engine } from "../engine/db.js";
+import type { FlatOofScores } from "../engine/leakage.js";
 import { isTailsiftError } from "../errors.js";
 import type { HierarchyFigures } from "../hierarchy/types.js";
 import type { ColumnProfile, Encoding, ProfileTarget } from "../profile/types.js";
-import { flatCandidate, overallMeanCandidate, pooledCandidate } from "./candidates.js";
+import { flatCandidate, overallMeanCandidate, overallMeanCandidates, pooledCandidate } from "./candidates.js";
 import { backoffCandidate, hierarchicalCandidate } from "./hierarchyCandidates.js";
 import { applyMargin } from "./margin.js";
 import { chooseByOneSeRule } from "./oneSe.js";
@@ -35,24 +38,30 @@ export function evidenceApplies(column: ColumnProfile, hierarchy: HierarchyFigur
  */
 export async function evidenceFor(
   engine: Engine, columns: readonly ColumnProfile[], target: ProfileTarget, policy: AdvicePolicy,
-  hierarchy: ReadonlyMap<number, HierarchyFigures>, skipped?: Set<number>,
+  hierarchy: ReadonlyMap<number, HierarchyFigures>, skipped?: Set<number>, sharedFlat?: FlatOofScores,
 ): Promise<Map<number, Evidence>> {
   const out = new Map<number, Evidence>();
   const kind = target.kind;
   const metric = kind === "binary" ? "log-loss" : "squared-error";
-  for (const [col, column] of columns.entries()) {
+  const applies = [...columns.entries()].filter(([col, column]) => evidenceApplies(column, hierarchy.get(col))).map(([col]) => col);
+  // the overall mean of every column in one set of statements; column by column if that runs out of memory
+  const overall = await overallMeanCandidates(engine, applies, kind).catch((err: unknown) => {
+    if (isTailsiftError(err) && err.code === "out_of_memory") return null;
+    throw err;
+  });
+  for (const col of applies) {
+    const column = columns[col]!;
     const h = hierarchy.get(col);
-    if (!evidenceApplies(column, h)) continue;
     const built: (EvidenceCandidate | null)[] = [];
     try {
-      built.push(await overallMeanCandidate(engine, col, kind));
+      built.push(overall ? (overall.get(col) ?? null) : await overallMeanCandidate(engine, col, kind));
       const pooledOnly = column.role === "identifier" && !(h?.useful === true && !h.counterLike);
       if (pooledOnly) {
         // identifier without a usable hierarchy: the repeated levels against the column unused
         built.push(await pooledTargetCandidate(engine, col, column, kind, policy));
       } else {
         built.push(await pooledCandidate(engine, col, column, kind, policy));
-        built.push(await flatCandidate(engine, col, column, kind, policy));
+        built.push(await flatCandidate(engine, col, column, kind, policy, sharedFlat));
       }
       if (h && !h.counterLike && !pooledOnly) {
         built.push(await backoffCandidate(engine, col, column, h, kind, policy));

@@ -9,17 +9,21 @@
  * between groups), and prior_f for missing values and unmapped levels — the fallback encode uses.
  */
 import { sqlNumber } from "../engine/sql.js";
-import { baseCtes, mEstimateSql } from "./baseSql.js";
+import { LEVEL_TABLE } from "../engine/aggregate.js";
+import { baseCtes, foldPriorCtes, mEstimateSql } from "./baseSql.js";
 
 /**
  * A mapping is a query of (level, gd, gk) for non-missing levels — gd/gk identify the group (see
- * hierarchy/backoff) — or "identity" (each level its own group) or "none" (no groups).
+ * hierarchy/backoff) — or "identity" (each level its own group) or "none" (no groups). With
+ * `carriesTotals` the query maps every non-missing level and also gives its totals from
+ * LEVEL_TOTALS (n_y, sum_y, sum_y2, single_fold): see groupTotalsScoredSql.
  */
-export type GroupMapping = "identity" | "none" | { sql: string };
+export type GroupMapping = "identity" | "none" | { sql: string; carriesTotals?: true };
 
 /** The (fold, n, s, s2, pred) query of a grouped candidate with weight m ≥ 0 (null = infinite: every group takes the prior). */
 export function groupedScoredSql(col: number, mapping: GroupMapping, weight: number | null): string {
   const m = weight === null ? "NULL::DOUBLE" : `${sqlNumber(weight)}::DOUBLE`;
+  if (typeof mapping === "object" && mapping.carriesTotals) return groupTotalsScoredSql(col, mapping.sql, m);
   const lg = mapping === "identity"
     ? "SELECT lf.*, CASE WHEN level IS NULL THEN NULL ELSE 0 END AS gd, level AS gk FROM lf"
     : mapping === "none"
@@ -34,4 +38,32 @@ export function groupedScoredSql(col: number, mapping: GroupMapping, weight: num
   FROM lg JOIN pf USING (fold)
   LEFT JOIN gt ON gt.gd = lg.gd AND gt.gk = lg.gk
   LEFT JOIN gft ON gft.gd = lg.gd AND gft.gk = lg.gk AND gft.fold = lg.fold`;
+}
+
+/**
+ * The same predictions, one row per (group, fold) instead of per (level, fold): every row of a
+ * group in fold f gets the same prediction, and the loss, squared error and Mann–Whitney sums
+ * are linear in (n, s, s2) at a fixed prediction, so the scores are unchanged up to the order of
+ * summation. The group's per-fold sums come from the level table only for levels whose target
+ * rows span several folds; a level with all its target rows in one fold (single_fold) adds its
+ * totals, carried by the mapping, to that fold — no join of its rows. Missing values take the
+ * fold's prior, as above.
+ */
+function groupTotalsScoredSql(col: number, mappingSql: string, m: string): string {
+  const c = sqlNumber(col);
+  return `WITH ${foldPriorCtes()},
+  mp AS (${mappingSql}),
+  multi AS (SELECT mp.gd, mp.gk, l.fold, sum(l.n_y)::DOUBLE AS n, sum(l.sum_y)::DOUBLE AS s, sum(l.sum_y2)::DOUBLE AS s2
+            FROM ${LEVEL_TABLE} l JOIN mp ON l.level = mp.level
+            WHERE l.col = ${c} AND l.n_y > 0 AND mp.single_fold IS NULL AND mp.n_y > 0 GROUP BY mp.gd, mp.gk, l.fold),
+  tail AS (SELECT gd, gk, single_fold AS fold, sum(n_y)::DOUBLE AS n, sum(sum_y)::DOUBLE AS s, sum(sum_y2)::DOUBLE AS s2
+           FROM mp WHERE single_fold IS NOT NULL GROUP BY gd, gk, single_fold),
+  gft AS (SELECT gd, gk, fold, sum(n) AS n, sum(s) AS s, sum(s2) AS s2 FROM (SELECT * FROM multi UNION ALL SELECT * FROM tail) GROUP BY gd, gk, fold),
+  gt AS (SELECT gd, gk, sum(n) AS gn, sum(s) AS gs FROM gft GROUP BY gd, gk),
+  miss AS (SELECT fold, sum(n_y)::DOUBLE AS n, sum(sum_y)::DOUBLE AS s, sum(sum_y2)::DOUBLE AS s2
+           FROM ${LEVEL_TABLE} WHERE col = ${c} AND level IS NULL AND n_y > 0 GROUP BY fold)
+  SELECT gft.fold, gft.n, gft.s, gft.s2, ${mEstimateSql("(gt.gs - gft.s)", "(gt.gn - gft.n)", m, "pf.prior")} AS pred
+  FROM gft JOIN gt ON gt.gd = gft.gd AND gt.gk = gft.gk JOIN pf ON pf.fold = gft.fold
+  UNION ALL
+  SELECT miss.fold, miss.n, miss.s, miss.s2, pf.prior AS pred FROM miss JOIN pf ON pf.fold = miss.fold`;
 }

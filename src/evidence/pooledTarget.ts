@@ -8,9 +8,7 @@
  * fit means no detectable spread between groups, and every group then takes the prior (m = ∞).
  */
 import type { AdvicePolicy } from "../advice/policy.js";
-import { LEVEL_TABLE } from "../engine/aggregate.js";
 import type { Engine } from "../engine/db.js";
-import { sqlNumber } from "../engine/sql.js";
 import { BACKOFF_TABLE, backoffFigures, buildBackoffMap } from "../hierarchy/backoff.js";
 import type { ParentSpec } from "../hierarchy/types.js";
 import { fitPrior } from "../profile/targetFigures.js";
@@ -22,14 +20,15 @@ import type { EvidenceCandidate } from "./types.js";
 
 /** Builds BACKOFF_TABLE for (parents shallowest first, minRows), fits m on the groups and scores. */
 export async function groupedTargetScore(engine: Engine, col: number, column: ColumnProfile, parents: readonly ParentSpec[], minRows: number, kind: TargetKind, what: string): Promise<{ weight: PriorWeight; method: string; score: Score | null }> {
-  await buildBackoffMap(engine, col, parents, minRows);
+  await buildBackoffMap(engine, col, parents, minRows, true);
+  // the map carries each level's target totals: the groups are summed from it alone
   const [sums] = await engine.rows<{ levels: number; rows: number; sumY: number; sumY2: number; sumSumSqOverRows: number; sumRowsSq: number }>(
     `SELECT count(*)::DOUBLE AS levels, sum(gn) AS rows, sum(gs) AS sumY, sum(gs2) AS sumY2, sum(gs * gs / gn) AS sumSumSqOverRows, sum(gn * gn) AS sumRowsSq
-     FROM (SELECT b.gd, b.gk, sum(l.n_y)::DOUBLE AS gn, sum(l.sum_y)::DOUBLE AS gs, sum(l.sum_y2)::DOUBLE AS gs2
-           FROM ${LEVEL_TABLE} l JOIN ${BACKOFF_TABLE} b ON l.level = b.level WHERE l.col = ${sqlNumber(col)} AND l.n_y > 0 GROUP BY b.gd, b.gk)`,
+     FROM (SELECT gd, gk, sum(n_y)::DOUBLE AS gn, sum(sum_y)::DOUBLE AS gs, sum(sum_y2)::DOUBLE AS gs2
+           FROM ${BACKOFF_TABLE} WHERE n_y > 0 GROUP BY gd, gk)`,
     "summing the target by backoff group");
   const prior = fitPrior(kind, sums && sums.levels > 0 ? { col, ...sums } : undefined, column.target?.prior.mean ?? 0);
-  const score = await scorePredictions(engine, groupedScoredSql(col, { sql: `SELECT level, gd, gk FROM ${BACKOFF_TABLE}` }, prior.weight), kind, what);
+  const score = await scorePredictions(engine, groupedScoredSql(col, { sql: `SELECT level, gd, gk, n_y, sum_y, sum_y2, single_fold FROM ${BACKOFF_TABLE}`, carriesTotals: true }, prior.weight), kind, what);
   return { weight: prior.weight, method: prior.method, score };
 }
 

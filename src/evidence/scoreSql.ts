@@ -4,7 +4,8 @@
  * the prediction every row in it receives. Per fold, in SQL: log loss −Σ[s·ln p + (n − s)·ln(1 − p)]
  * with p clipped to [1e-15, 1 − 1e-15] (binary), or squared error Σ(s2 − 2·pred·s + n·pred²)
  * (continuous). Over all folds: AUC by the Mann–Whitney U statistic summed over distinct
- * predictions (ties ½, as engine/leakage does), or R² = 1 − SSE/SST.
+ * predictions (ties ½, as engine/leakage does), or R² = 1 − SSE/SST. scorePredictionsByColumn
+ * does the same for several columns in one set of statements (a query with a col column).
  */
 import type { Engine } from "../engine/db.js";
 import { logLossSql, mannWhitneyUSql } from "../engine/formulaSql.js";
@@ -19,21 +20,43 @@ export interface Score { loss: number; se: number | null; foldLosses: number[]; 
 
 /** Runs the candidate's query once (into a temp table) and reads bounded sums back. */
 export async function scorePredictions(engine: Engine, scoredSql: string, kind: TargetKind, what: string): Promise<Score | null> {
+  const scores = await scorePredictionsByColumn(engine, `SELECT 0 AS col, fold, n, s, s2, pred FROM (${scoredSql})`, kind, what);
+  return scores.get(0) ?? null;
+}
+
+/**
+ * The same for several columns at once: `scoredSql` is a query of (col, fold, n, s, s2, pred),
+ * each column scored on its own rows (one statement per step for all columns, instead of one per
+ * column). Columns with no rows are absent from the map.
+ */
+export async function scorePredictionsByColumn(engine: Engine, scoredSql: string, kind: TargetKind, what: string): Promise<Map<number, Score>> {
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${SCORED} AS ${scoredSql}`, `predicting out-of-fold (${what})`);
   const loss = kind === "binary"
     ? logLossSql("s", "(n - s)", "pred")
     : "s2 - 2 * pred * s + n * pred * pred";
-  const folds = await engine.rows<{ fold: number; rows: number; loss: number }>(
-    `SELECT fold, sum(n)::DOUBLE AS rows, sum(${loss})::DOUBLE AS loss FROM ${SCORED} GROUP BY fold ORDER BY fold`, `scoring ${what}`);
-  const summary = foldLoss(folds);
-  if (!summary) return null;
-  const rows = folds.reduce((s, f) => s + f.rows, 0);
-  if (kind === "continuous") {
-    const [t] = await engine.rows<{ sse: number; sst: number }>(
-      `SELECT sum(s2 - 2 * pred * s + n * pred * pred)::DOUBLE AS sse, (sum(s2) - sum(s) * sum(s) / sum(n))::DOUBLE AS sst FROM ${SCORED}`, `scoring ${what}`);
-    return { ...summary, rows, r2: t ? rSquaredFromSums(t.sse, t.sst) : null };
+  const folds = await engine.rows<{ col: number; fold: number; rows: number; loss: number }>(
+    `SELECT col, fold, sum(n)::DOUBLE AS rows, sum(${loss})::DOUBLE AS loss FROM ${SCORED} GROUP BY col, fold ORDER BY col, fold`, `scoring ${what}`);
+  const byCol = new Map<number, { fold: number; rows: number; loss: number }[]>();
+  for (const f of folds) byCol.set(f.col, [...(byCol.get(f.col) ?? []), f]);
+  const out = new Map<number, Score>();
+  const extra = kind === "continuous"
+    ? await engine.rows<{ col: number; sse: number; sst: number }>(
+      `SELECT col, sum(s2 - 2 * pred * s + n * pred * pred)::DOUBLE AS sse, (sum(s2) - sum(s) * sum(s) / sum(n))::DOUBLE AS sst FROM ${SCORED} GROUP BY col`, `scoring ${what}`)
+    : await engine.rows<{ col: number; u: number; positives: number; negatives: number }>(
+      mannWhitneyUSql(`SELECT col, pred AS score, sum(s) AS pos, sum(n - s) AS neg FROM ${SCORED} GROUP BY col, pred`, ["col"]), `scoring ${what}`);
+  const extraOf = new Map(extra.map((e) => [e.col, e]));
+  for (const [col, list] of byCol) {
+    const summary = foldLoss(list);
+    if (!summary) continue;
+    const rows = list.reduce((s, f) => s + f.rows, 0);
+    const e = extraOf.get(col);
+    if (kind === "continuous") {
+      const t = e as { sse: number; sst: number } | undefined;
+      out.set(col, { ...summary, rows, r2: t ? rSquaredFromSums(t.sse, t.sst) : null });
+    } else {
+      const u = e as { u: number; positives: number; negatives: number } | undefined;
+      out.set(col, { ...summary, rows, auc: u ? aucFromU(u) : null });
+    }
   }
-  const [u] = await engine.rows<{ u: number; positives: number; negatives: number }>(
-    mannWhitneyUSql(`SELECT pred AS score, sum(s) AS pos, sum(n - s) AS neg FROM ${SCORED} GROUP BY pred`, []), `scoring ${what}`);
-  return { ...summary, rows, auc: u ? aucFromU(u) : null };
+  return out;
 }

@@ -15,21 +15,26 @@ import type { BackoffFigures, ParentSpec } from "./types.js";
 
 export const BACKOFF_TABLE = "tailsift_backoff";
 
-/** The mapping query for one column (parents shallowest first). */
-export function backoffMapSql(col: number, parents: readonly ParentSpec[], minRows: number): string {
+/**
+ * The mapping query for one column (parents shallowest first). With `carryTargets` each level
+ * also carries its target totals and single_fold from LEVEL_TOTALS (n_y, sum_y, sum_y2,
+ * single_fold), so the evidence sums groups without joining the level table again.
+ */
+export function backoffMapSql(col: number, parents: readonly ParentSpec[], minRows: number, carryTargets = false): string {
+  const carried = carryTargets ? ", n_y, sum_y, sum_y2, single_fold" : "";
   const min = sqlNumber(minRows);
   const ps = parents.map((p, i) => `${parentSql(p, "level")} AS p${i + 1}`).join(", ");
   const steps = parents.map((_, i) => parents.length - i).map((d, i) => `b${i + 1} AS (SELECT * REPLACE (CASE WHEN gd IS NULL
       AND sum(CASE WHEN gd IS NULL THEN rows ELSE 0 END) OVER (PARTITION BY p${d}) >= ${min} THEN ${d} ELSE gd END AS gd) FROM b${i})`);
   const key = parents.map((_, i) => `WHEN ${i + 1} THEN p${i + 1}`).join(" ");
-  return `WITH b0 AS (SELECT level, rows${ps ? `, ${ps}` : ""}, CASE WHEN rows >= ${min} THEN 0 END AS gd
+  return `WITH b0 AS (SELECT level, rows${carried}${ps ? `, ${ps}` : ""}, CASE WHEN rows >= ${min} THEN 0 END AS gd
       FROM ${LEVEL_TOTALS} WHERE col = ${sqlNumber(col)} AND level IS NOT NULL)${steps.length > 0 ? `, ${steps.join(", ")}` : ""}
-    SELECT level, rows, coalesce(gd, -1)::INTEGER AS gd, CASE gd WHEN 0 THEN level ${key} ELSE '' END AS gk FROM b${parents.length}`;
+    SELECT level, rows${carried}, coalesce(gd, -1)::INTEGER AS gd, CASE gd WHEN 0 THEN level ${key} ELSE '' END AS gk FROM b${parents.length}`;
 }
 
-/** Creates (or replaces) BACKOFF_TABLE for one column. */
-export async function buildBackoffMap(engine: Engine, col: number, parents: readonly ParentSpec[], minRows: number): Promise<void> {
-  await engine.run(`CREATE OR REPLACE TEMP TABLE ${BACKOFF_TABLE} AS ${backoffMapSql(col, parents, minRows)}`, "grouping rare levels under their parents");
+/** Creates (or replaces) BACKOFF_TABLE for one column (with the target totals: see backoffMapSql). */
+export async function buildBackoffMap(engine: Engine, col: number, parents: readonly ParentSpec[], minRows: number, carryTargets = false): Promise<void> {
+  await engine.run(`CREATE OR REPLACE TEMP TABLE ${BACKOFF_TABLE} AS ${backoffMapSql(col, parents, minRows, carryTargets)}`, "grouping rare levels under their parents");
 }
 
 /**

@@ -39,6 +39,7 @@ import { toolVersion } from "../version.js";
 import { measureColumns, otherColumns } from "./columns.js";
 import { addPlaceholderFigures } from "./placeholderLevels.js";
 import { addTargetFigures } from "./targetFigures.js";
+import type { FlatOofScores } from "../engine/leakage.js";
 
 export interface AdviceInput {
   levelColumns: string[];
@@ -76,8 +77,9 @@ export async function adviseFromLevelTable(engine: Engine, ctx: AdviceInput): Pr
   const { columns, tops } = await measureColumns(engine, ctx.levelColumns, ctx.totals.rows, policy, ctx.top);
   await addPlaceholderFigures(engine, columns);
   // 2. target figures, or hashing widths
+  let sharedFlat: FlatOofScores | undefined;
   if (target) {
-    await addTargetFigures(engine, columns, tops, target);
+    sharedFlat = await addTargetFigures(engine, columns, tops, target);
     if (!ctx.outOfFold) for (const c of columns) if (c.target) c.target.leakage.outOfFold = null;
   } else {
     await addHashing(engine, columns, policy);
@@ -91,7 +93,7 @@ export async function adviseFromLevelTable(engine: Engine, ctx: AdviceInput): Pr
   const advised = columns.map((c) => c.recommendation);
   if (target) {
     const skipped = new Set<number>();
-    const evidence = await evidenceFor(engine, columns, target, policy, hierarchy, skipped);
+    const evidence = await evidenceFor(engine, columns, target, policy, hierarchy, skipped, sharedFlat);
     for (const col of skipped) advised[col] = withReason(advised[col]!, EVIDENCE_SKIPPED);
     for (const [col, e] of evidence) {
       const column = columns[col]!;

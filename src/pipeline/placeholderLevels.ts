@@ -1,8 +1,9 @@
 /**
  * pipeline/placeholderLevels: step 1 of the advice pipeline, after the column figures — counts, per measured column, the rows whose level is spelled like a
  * missing value (profile/placeholders), from the level totals — a scan of the levels, not of the
- * rows; only the totals and the largest PLACEHOLDER_TOP such levels per column cross into
- * JavaScript. Sets ColumnProfile.placeholders where there are any.
+ * rows (the regex matcher runs only on the levels a cheap pre-filter lets through,
+ * profile/placeholders placeholderEntrySql); only the totals and the largest PLACEHOLDER_TOP
+ * such levels per column cross into JavaScript. Sets ColumnProfile.placeholders where there are any.
  */
 import { placeholderEntrySql } from "../profile/placeholders.js";
 import type { ColumnProfile } from "../profile/types.js";

@@ -5,7 +5,7 @@
  * level's rate, interval and smoothed value. Reads the level table alone.
  */
 import type { Engine } from "../engine/db.js";
-import { leakageSums, type LeakageSums } from "../engine/leakage.js";
+import { leakageScores, type FlatOofScores, type LeakageScores, type OofFoldSums } from "../engine/leakage.js";
 import { binaryIntervalGroups, continuousFlagCounts, funnelLevels, targetColumnSums, type IntervalGroup, type LevelRow } from "../engine/levels.js";
 import type { TargetKind } from "../engine/target.js";
 import { isTailsiftError } from "../errors.js";
@@ -15,7 +15,7 @@ import { studentTQuantile } from "../stats/studentTQuantile.js";
 
 const FUNNEL_POINTS = 300;
 
-export async function addTargetFigures(engine: Engine, columns: ColumnProfile[], tops: LevelRow[][], target: ProfileTarget): Promise<void> {
+export async function addTargetFigures(engine: Engine, columns: ColumnProfile[], tops: LevelRow[][], target: ProfileTarget): Promise<FlatOofScores | undefined> {
   const kind = target.kind;
   const sums = await targetColumnSums(engine);
   const priors = columns.map((_, col) => fitPrior(kind, sums.get(col), target.mean));
@@ -31,7 +31,8 @@ export async function addTargetFigures(engine: Engine, columns: ColumnProfile[],
 
   // the leakage is scored at the weight the encoding would use: the fitted m, or m = ∞ (null)
   const weights = new Map<number, PriorWeight>(priors.map((p, col) => [col, p.weight]));
-  const leak = await leakageWithinMemory(engine, weights, kind);
+  const scores = await leakageWithinMemory(engine, weights, kind);
+  const leak = scores.sums;
   const sst = target.rows * (target.sd ?? 0) ** 2;
   const funnel = await funnelLevels(engine, columns.length, FUNNEL_POINTS);
   columns.forEach((column, col) => {
@@ -46,6 +47,11 @@ export async function addTargetFigures(engine: Engine, columns: ColumnProfile[],
       return row ? describeLevel(kind, level, row, prior, target.mean) : level;
     });
   });
+  if (!scores.priorsDefined) return undefined;
+  // the flat encoding's out-of-fold scores, for evidence (absent when a fold prior is undefined)
+  const folds = new Map<number, OofFoldSums[]>();
+  for (const f of scores.oofFolds) folds.set(f.col, [...(folds.get(f.col) ?? []), f]);
+  return { weights, folds, sums: leak };
 }
 
 /**
@@ -53,16 +59,19 @@ export async function addTargetFigures(engine: Engine, columns: ColumnProfile[],
  * columns with millions of levels), column by column, leaving a column's leakage null (and its
  * reasons saying so) when even that does not fit.
  */
-async function leakageWithinMemory(engine: Engine, weights: Map<number, PriorWeight>, kind: TargetKind): Promise<LeakageSums[]> {
+async function leakageWithinMemory(engine: Engine, weights: Map<number, PriorWeight>, kind: TargetKind): Promise<LeakageScores> {
   try {
-    return await leakageSums(engine, weights, kind);
+    return await leakageScores(engine, weights, kind);
   } catch (err) {
     if (!(isTailsiftError(err) && err.code === "out_of_memory")) throw err;
   }
-  const out: LeakageSums[] = [];
+  const out: LeakageScores = { sums: [], oofFolds: [], priorsDefined: true };
   for (const [col, m] of weights) {
     try {
-      out.push(...(await leakageSums(engine, new Map([[col, m]]), kind)));
+      const one = await leakageScores(engine, new Map([[col, m]]), kind);
+      out.sums.push(...one.sums);
+      out.oofFolds.push(...one.oofFolds);
+      out.priorsDefined &&= one.priorsDefined;
     } catch (err) {
       if (!(isTailsiftError(err) && err.code === "out_of_memory")) throw err;
     }

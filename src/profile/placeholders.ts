@@ -50,12 +50,36 @@ export function placeholderEntry(value: string): string | null {
 /** Longest value looked at: placeholders are short, and the regexes then run on few levels only. */
 export const PLACEHOLDER_MAX_LENGTH = 40;
 
-/** SQL for placeholderEntry(level): the matched entry, or NULL (DuckDB regexes, RE2 syntax). */
-export function placeholderEntrySql(level: string): string {
+/** What a matching value can start with (after trim and lower-casing): an entry's first character or an opening bracket. */
+export const PLACEHOLDER_FIRST_CHARS: readonly string[] = [...new Set([...PLACEHOLDER_ENTRIES.map((e) => e.spelling.charAt(0)), "[", "(", "<", "{"])].sort();
+
+/**
+ * A cheap necessary condition for the matcher, with no regex: at most PLACEHOLDER_MAX_LENGTH
+ * characters, and the first character after trim, lower-cased, in PLACEHOLDER_FIRST_CHARS. (The
+ * normalised value starts with that character, or with a space — which matches nothing — and a
+ * match either equals an entry or is bracketed.) Identifier-like columns have millions of levels;
+ * the regexes then run on the few that pass (test/scan/placeholders checks it lets every match through).
+ */
+export function placeholderPrefilterSql(level: string): string {
+  const list = PLACEHOLDER_FIRST_CHARS.map((c) => `'${c.replaceAll("'", "''")}'`).join(", ");
+  return `(length(${level}) <= ${PLACEHOLDER_MAX_LENGTH} AND lower(left(trim(${level}), 1)) IN (${list}))`;
+}
+
+/** The matcher alone, without the pre-filter (exported for tests): the entry or NULL. */
+export function placeholderMatchSql(level: string): string {
   const norm = `regexp_replace(lower(trim(${level})), '\\s+', ' ', 'g')`;
   const inner = `regexp_extract(${norm}, '^[\\[(<{]\\s*(.*?)\\s*[\\])>}]$', 1)`;
   const stripped = `(CASE WHEN ${inner} <> '' THEN ${inner} ELSE ${norm} END)`;
   const list = PLACEHOLDER_ENTRIES.map((e) => `'${e.spelling.replaceAll("'", "''")}'`).join(", ");
   return `(CASE WHEN length(${level}) > ${PLACEHOLDER_MAX_LENGTH} THEN NULL WHEN ${stripped} IN (${list}) THEN ${stripped}`
     + ` WHEN starts_with(${inner}, 'no ') THEN '${NO_SOMETHING_ENTRY}' END)`;
+}
+
+/**
+ * SQL for placeholderEntry(level): the matched entry, or NULL (DuckDB regexes, RE2 syntax). The
+ * pre-filter is the first branch of the CASE, so the regexes are evaluated only where it holds
+ * (a WHERE beside them would not do: DuckDB may evaluate the conjuncts in any order).
+ */
+export function placeholderEntrySql(level: string): string {
+  return `(CASE WHEN NOT ${placeholderPrefilterSql(level)} THEN NULL ELSE ${placeholderMatchSql(level)} END)`;
 }

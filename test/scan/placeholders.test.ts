@@ -12,7 +12,7 @@ import { scan } from "../../src/commands/scan.js";
 import { levelSql } from "../../src/commands/sql.js";
 import { withEngine } from "../../src/engine/db.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
-import { placeholderEntry, placeholderEntrySql } from "../../src/profile/placeholders.js";
+import { PLACEHOLDER_ENTRIES, placeholderEntry, placeholderEntrySql, placeholderMatchSql, placeholderPrefilterSql } from "../../src/profile/placeholders.js";
 import { redactProfile } from "../../src/profile/redact.js";
 import type { ColumnProfile, Profile } from "../../src/profile/types.js";
 import { renderTable } from "../../src/render/table.js";
@@ -42,6 +42,43 @@ describe("placeholderEntry (the list and its matching)", () => {
       }
     });
   });
+});
+
+describe("placeholderPrefilterSql (the regex-free condition in front of the matcher)", () => {
+  // brute force: every value the matcher accepts must pass the pre-filter, on the hand-picked
+  // spellings and on generated ones (case, spaces, tabs, brackets, "[no …]", random text)
+  it("lets through every value the matcher accepts, and drops most others", async () => {
+    const r = mulberry32(41);
+    const ALPHA = ["a", "N", "u", "m", "-", "#", "?", "/", " ", "\t", "[", "]", "(", ")", "<", ">", "{", "}", "x", "Ü", "İ", "ß", "0", "7"];
+    const randomCase = (t: string) => [...t].map((ch) => (r() < 0.5 ? ch.toUpperCase() : ch)).join("");
+    const pad = () => [" ", "  ", "\t", ""][Math.floor(r() * 4)]!;
+    const values = new Set<string>(SPELLINGS.map(([v]) => v));
+    for (const e of PLACEHOLDER_ENTRIES) {
+      for (let k = 0; k < 20; k++) {
+        const t = `${pad()}${randomCase(e.spelling)}${pad()}`;
+        values.add(t);
+        const [o, c] = [["[", "]"], ["(", ")"], ["<", ">"], ["{", "}"]][k % 4]!;
+        values.add(`${pad()}${o}${pad()}${t}${pad()}${c}${pad()}`);
+        values.add(`${o}${randomCase("no")} ${randomCase(e.spelling)}${c}`);
+      }
+    }
+    for (let k = 0; k < 3000; k++) values.add(Array.from({ length: 1 + Math.floor(r() * 12) }, () => ALPHA[Math.floor(r() * ALPHA.length)]!).join(""));
+    values.add("n".repeat(41));
+    const list = [...values];
+    await withEngine({}, async (engine) => {
+      await engine.run(`CREATE TABLE v AS SELECT unnest([${list.map(quoteLiteral).join(", ")}]) AS level`, "test");
+      const [row] = await engine.rows<{ matched: number; missed: number; differ: number; passed: number; total: number }>(
+        `SELECT count(*) FILTER (WHERE ${placeholderMatchSql("level")} IS NOT NULL)::DOUBLE AS matched,
+                count(*) FILTER (WHERE ${placeholderMatchSql("level")} IS NOT NULL AND NOT ${placeholderPrefilterSql("level")})::DOUBLE AS missed,
+                count(*) FILTER (WHERE ${placeholderMatchSql("level")} IS DISTINCT FROM ${placeholderEntrySql("level")})::DOUBLE AS differ,
+                count(*) FILTER (WHERE ${placeholderPrefilterSql("level")})::DOUBLE AS passed, count(*)::DOUBLE AS total FROM v`, "test");
+      // (not compared with placeholderEntry: SQL trim() keeps tabs, JavaScript's trim() drops them)
+      expect(row?.matched).toBeGreaterThan(500);
+      expect(row?.missed).toBe(0);
+      expect(row?.differ).toBe(0);
+      expect(row?.passed).toBeLessThan(row?.total ?? 0);
+    });
+  }, 60_000);
 });
 
 const N = 800;
