@@ -6,7 +6,7 @@
 import { DEFAULT_POLICY, validatePolicy, type AdvicePolicy } from "../advice/policy.js";
 import { buildLevelTable } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
-import { checkFoldRequest, foldContractFor, type FoldRequest } from "../engine/folds.js";
+import { checkFoldRequest, foldContractFor, timeBlockCuts, type FoldRequest } from "../engine/folds.js";
 import { numberTypeOf, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
 import { normaliseMissingLike } from "../engine/missingLike.js";
 import { checkMeasuredWidth, countSkippedRows, describeFiles, openSource, type Source, type SourceOptions } from "../engine/source.js";
@@ -77,7 +77,8 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
   if (options.target !== undefined) checkNames(source, [options.target], "--target");
   // the fold of a row reads every column of the input, in file order (or, with --fold-by, the key);
   // the advice's K (target-kfold, evidence) is the contract's
-  const fold = foldContractFor(options, source.columns, options.target);
+  // with --time, one cheap query first: the time column's cut points (engine/folds timeBlockCuts)
+  const fold = foldContractFor(options, source.columns, options.target, await timeBlockCuts(engine, source.view, options, source.columns, options.target));
   const policy: AdvicePolicy = { ...basePolicy, folds: fold.k, seed: fold.seed };
   for (const name of Object.keys(options.decide ?? {})) checkNames(source, [name], "--decide");
 

@@ -153,7 +153,7 @@ export function inputNotes(profile: Profile): string[] {
   const notes: string[] = [];
   if (profile.input.redacted) notes.push("Level values are redacted in this profile: the labels shown are stand-ins, not the values in the data.");
   if (profile.input.fromLevels) notes.push("Profiled from a level table (tailsift sql, then scan --levels), not from the raw rows.");
-  if (profile.settings.fold?.kind === "grouped") notes.push(`Folds: ${foldKindText(profile.settings.fold)}.`);
+  if (profile.settings.fold?.kind === "grouped" || profile.settings.fold?.kind === "time-blocks") notes.push(`Folds: ${foldKindText(profile.settings.fold)}.`);
   notes.push(...roleNotes(profile));
   return notes;
 }

@@ -62,6 +62,7 @@ export function renderTable(profile: Profile): string {
   const header = `${formatCount(profile.input.rows)} rows, ${profile.columns.length} columns` +
     (t ? `; target '${t.column}' (${t.kind}, mean ${formatNumber(t.mean, 4)}, ${formatCount(t.missing)} missing)` : "") +
     `; ${profile.settings.folds} folds, seed ${profile.settings.seed}` +
-    (profile.settings.fold?.kind === "grouped" ? ` (grouped by ${profile.settings.fold.keyColumns.join(", ")})` : "");
+    (profile.settings.fold?.kind === "grouped" ? ` (grouped by ${profile.settings.fold.keyColumns.join(", ")})` : "") +
+    (profile.settings.fold?.kind === "time-blocks" ? ` (time-ordered blocks by ${profile.settings.fold.timeColumn})` : "");
   return `${header}\n${table.toString()}\n`;
 }
