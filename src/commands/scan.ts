@@ -15,6 +15,7 @@ import { TailsiftError } from "../errors.js";
 import { adviseFromLevelTable } from "../pipeline/advise.js";
 import { planColumnKinds } from "../pipeline/columnKinds.js";
 import { addFoldNotes } from "../pipeline/foldNotes.js";
+import { addForwardFigures } from "../pipeline/forwardFigures.js";
 import { checkTarget } from "../profile/checkTarget.js";
 import type { Encoding, Profile, TargetKind } from "../profile/types.js";
 
@@ -120,6 +121,7 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
     if (sample) c.numberType = numberTypeOf(sample);
   }
   await addFoldNotes(engine, source.view, profile, levelColumns, fold);
+  await addForwardFigures(engine, profile, levelColumns, fold);
   profile.settings.fold = fold; // the contract encode reads back (engine/folds readFoldContract)
   return profile;
 }

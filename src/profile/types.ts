@@ -1,4 +1,5 @@
 import type { FoldContract } from "../engine/folds.js";
+import type { ForwardUnseen } from "../engine/forwardUnseen.js";
 import type { TargetKind } from "../engine/target.js";
 import type { Evidence } from "./evidenceTypes.js";
 import type { HierarchyFigures } from "./hierarchyTypes.js";
@@ -140,6 +141,8 @@ export interface ColumnProfile {
   recommendation: Recommendation;
   /** With --fold-by: the share of rows whose level stays within one entity of the key (engine/keyNesting). */
   keyNesting?: { keyColumns: string[]; share: number };
+  /** With --time: the unseen-level share measured forward over the time blocks (engine/forwardUnseen). */
+  forwardUnseen?: ForwardUnseen;
 }
 
 export interface NumericValues {

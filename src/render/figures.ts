@@ -78,6 +78,12 @@ function rowsWithShare(rows: number, total: number): string {
   return `${formatCount(rows)} (${formatShare(total > 0 ? rows / total : null)})`;
 }
 
+/** The forward unseen-level share (--time), read beside the Good–Turing forecast above it. */
+function forwardUnseenFigure(f: NonNullable<ColumnProfile["forwardUnseen"]>): Figure {
+  const se = f.se === null ? "" : ` ± ${formatShare(f.se, 2)} SE`;
+  return { label: "unseen-level share forward in time", value: `${formatShare(f.mean, 2)}${se} (mean over ${f.steps.length} steps: blocks seen before vs the next); last block ${formatShare(f.last, 2)}` };
+}
+
 /** The key figures of one column, in the order both renderers show them (rows and missing only
  * for columns not profiled as levels). */
 export function keyFigures(column: ColumnProfile, profile: Profile): Figure[] {
@@ -95,6 +101,7 @@ export function keyFigures(column: ColumnProfile, profile: Profile): Figure[] {
     { label: "distinct levels", value: formatCount(column.distinct) },
     { label: "singletons (levels seen once)", value: formatCount(column.singletons) },
     { label: "unseen-level rate (Good–Turing)", value: formatShare(column.unseenRate, 2) + interval },
+    ...(column.forwardUnseen ? [forwardUnseenFigure(column.forwardUnseen)] : []),
     { label: "effective levels (exp entropy)", value: `${formatCompact(column.effectiveLevels, 3)} (${formatNumber(column.entropyBits, 2)} bits)` },
     { label: `levels covering ${formatShare(target, 0)} of rows`, value: formatCount(cover?.levels) },
   ];

@@ -1,0 +1,22 @@
+/**
+ * pipeline/forwardFigures: the figures of time-ordered blocks (--time, fold kind time-blocks)
+ * that sit beside the k-fold ones in the record: per level column, the forward unseen-level share
+ * (engine/forwardUnseen: fit on blocks < b, share of block b's rows with a level never seen
+ * before, mean over the K − 1 steps with its SE, and the last step's share), shown beside the
+ * Good–Turing forecast from the whole extract. scan calls it after advise, like foldNotes.
+ */
+import type { Engine } from "../engine/db.js";
+import type { FoldContract } from "../engine/folds.js";
+import { forwardUnseenFigure, forwardUnseenSteps } from "../engine/forwardUnseen.js";
+import type { Profile } from "../profile/types.js";
+
+/** Adds forwardUnseen to the profile's level columns (time-blocks folds only). */
+export async function addForwardFigures(engine: Engine, profile: Profile, levelColumns: readonly string[], fold: FoldContract): Promise<void> {
+  if (fold.kind !== "time-blocks") return;
+  const steps = await forwardUnseenSteps(engine);
+  levelColumns.forEach((name, col) => {
+    const column = profile.columns.find((c) => c.name === name);
+    const figure = forwardUnseenFigure(steps.get(col) ?? []);
+    if (column && figure) column.forwardUnseen = figure;
+  });
+}
