@@ -80,7 +80,7 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
   // the advice's K (target-kfold, evidence) is the contract's
   // with --time, one cheap query first: the time column's cut points (engine/folds timeBlockCuts)
   const fold = foldContractFor(options, source.columns, options.target, await timeBlockCuts(engine, source.view, options, source.columns, options.target));
-  const policy: AdvicePolicy = { ...basePolicy, folds: fold.k, seed: fold.seed };
+  const policy: AdvicePolicy = { ...basePolicy, folds: fold.k, seed: fold.seed, ...(fold.kind === "time-blocks" ? { forward: true } : {}) };
   for (const name of Object.keys(options.decide ?? {})) checkNames(source, [name], "--decide");
 
   const chosen = options.columns && options.columns.length > 0 ? new Set(options.columns) : null;

@@ -9,6 +9,7 @@ import type { AdvicePolicy } from "../advice/policy.js";
 import { count, num, pct } from "../advice/words.js";
 import { describeParent } from "../hierarchy/parent.js";
 import type { ColumnProfile, PriorWeight, Recommendation } from "../profile/types.js";
+import { forwardComparisonText, forwardWeightText } from "./forward.js";
 import { gainText, relativeGain } from "./margin.js";
 import { fmt, label } from "./oneSe.js";
 import type { Evidence, EvidenceCandidate } from "./types.js";
@@ -41,6 +42,7 @@ function headline(c: EvidenceCandidate, folds: number): string {
 export function comparisonText(e: Evidence): string {
   const metric = e.metric === "log-loss" ? "log loss (nats per row)" : "squared error per row";
   const items = e.candidates.map((c) => `${label(c.candidate)} ${fmt(c.loss, 5)} ± ${fmt(c.se, 2)}${c.auc !== undefined ? ` (AUC ${num(c.auc)})` : ""}${c.r2 !== undefined ? ` (R² ${num(c.r2, 4)})` : ""}`);
+  if (e.validation === "forward") return forwardComparisonText(e, metric, items); // --time (evidence/forward)
   return `Out-of-fold ${metric} over ${e.folds} folds, ± one standard error across folds: ${items.join("; ")}.`;
 }
 
@@ -76,9 +78,12 @@ export function applyEvidence(column: ColumnProfile, evidence: Evidence, policy:
     return { ...was, reasons: [...was.reasons, comparison,
       `The rules' choice (${was.encoding}) stands: the evidence's choice, ${label(chosen.candidate)}, is not taken, because without a hierarchy an identifier-like column's out-of-fold score overstates how it generalises to new levels.`] };
   }
-  const told = [`Evidence: ${evidence.reason}`, comparison];
+  const forwardWeight = evidence.forwardWeight && chosen.candidate === "target-kfold" ? evidence.forwardWeight : undefined;
+  const told = [`Evidence: ${evidence.reason}`, comparison, ...(forwardWeight ? [forwardWeightText(forwardWeight)] : [])];
   const encoding = chosen.candidate === "pooled-one-hot" ? "pooled-one-hot" : "target-kfold";
   const sameAsRules = encoding === was.encoding && (chosen.candidate === "pooled-one-hot" || chosen.candidate === "target-kfold");
+  // --time: the flat candidate's weight was chosen for forward loss (evidence/forward); it replaces the rules' fitted m
+  if (sameAsRules && forwardWeight && chosen.candidate === "target-kfold" && was.encoding === "target-kfold") return { ...was, params: chosen.params, reasons: [...was.reasons, ...told] };
   if (sameAsRules) return { ...was, reasons: [...was.reasons, ...told] };
   const rec = asRecommendation(chosen, [headline(chosen, evidence.folds), ...told, `The rules alone advised ${was.encoding}: ${was.reasons[0] ?? ""}`]);
   const cautions = cautionsFor(column, rec);

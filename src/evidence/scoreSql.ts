@@ -12,6 +12,7 @@ import type { TargetKind } from "../profile/types.js";
 import { aucFromU } from "../stats/aucFromGroups.js";
 import { rSquaredFromSums } from "../stats/rSquaredFromGroups.js";
 import { foldLoss } from "./foldLoss.js";
+import { recordFoldSums } from "./forwardScope.js";
 
 const SCORED = "tailsift_evidence_scored";
 
@@ -25,6 +26,7 @@ export async function scorePredictions(engine: Engine, scoredSql: string, kind: 
     : "s2 - 2 * pred * s + n * pred * pred";
   const folds = await engine.rows<{ fold: number; rows: number; loss: number }>(
     `SELECT fold, sum(n)::DOUBLE AS rows, sum(${loss})::DOUBLE AS loss FROM ${SCORED} GROUP BY fold ORDER BY fold`, `scoring ${what}`);
+  recordFoldSums(folds); // a forward step (evidence/forward) keeps its scored block's sums
   const summary = foldLoss(folds);
   if (!summary) return null;
   const rows = folds.reduce((s, f) => s + f.rows, 0);

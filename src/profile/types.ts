@@ -91,7 +91,8 @@ export interface ColumnTargetFigures {
   expectedFalseFlags: number;
   /** Levels with an interval (n >= 1 binary, n >= 2 continuous). */
   testedLevels?: number;
-  leakage: { inSample: number | null; outOfFold: number | null; metric: "auc" | "r2"; weightUsed?: PriorWeight };
+  /** forward: with --time, the same encoding scored forward (blocks ≥ 1, each from earlier blocks; engine/forwardLeakage). */
+  leakage: { inSample: number | null; outOfFold: number | null; metric: "auc" | "r2"; weightUsed?: PriorWeight; forward?: number | null };
   /** Funnel-plot points: rate against rows for up to a bounded number of levels (report only). */
   funnel?: { value: string | null; rows: number; rate: number }[];
 }

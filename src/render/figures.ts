@@ -120,7 +120,7 @@ export function keyFigures(column: ColumnProfile, profile: Profile): Figure[] {
       { label: "prior weight m", value: `${formatCompact(t.prior.weight)} (${t.prior.method}; prior mean ${formatCompact(t.prior.mean)})` },
       { label: "flagged levels", value: `${formatCount(t.flaggedLevels)} flagged vs ${formatNumber(t.expectedFalseFlags, 1)} expected false flags`
         + (t.testedLevels === undefined ? "" : ` (${formatCount(t.testedLevels)} levels tested)`) },
-      { label: `leakage (${metric})`, value: `in-sample ${formatNumber(t.leakage.inSample, 3)}, out-of-fold ${formatNumber(t.leakage.outOfFold, 3)}` },
+      { label: `leakage (${metric})`, value: `in-sample ${formatNumber(t.leakage.inSample, 3)}, out-of-fold ${formatNumber(t.leakage.outOfFold, 3)}${t.leakage.forward !== undefined ? `, forward ${formatNumber(t.leakage.forward, 3)}` : ""}` },
     );
   }
   if (column.hashing) {
