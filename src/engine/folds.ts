@@ -173,6 +173,23 @@ export function groupedFolds(keyColumns: readonly string[], k: number, seed: num
   return { kind: "grouped", hash: GROUPED_FOLD_HASH, seed: checkFoldSeed(seed), k: checkFoldCount(k), keyColumns: [...keyColumns] };
 }
 
+/**
+ * encode --for training with a time-blocks plan: every row of the input must have a time that
+ * reads as a date/time (a row without one has no block). One query; refused with the counts.
+ * @throws TailsiftError `bad_input`.
+ */
+export async function checkTimeBlockRows(engine: Engine, view: string, fold: FoldContract): Promise<void> {
+  if (fold.kind !== "time-blocks" || fold.timeColumn === undefined) return;
+  const c = quoteIdent(fold.timeColumn);
+  const [r] = await engine.rows<{ missing: number; unread: number; example: string | null }>(
+    `SELECT count(*) FILTER (WHERE v IS NULL)::DOUBLE AS missing, count(*) FILTER (WHERE v IS NOT NULL AND t IS NULL)::DOUBLE AS unread,
+       min(v) FILTER (WHERE v IS NOT NULL AND t IS NULL) AS example
+     FROM (SELECT ${c} AS v, ${timeValueSql(c)} AS t FROM ${view})`, `checking the times of '${fold.timeColumn}'`);
+  if (!r) return;
+  if (r.missing > 0) throw new TailsiftError("bad_input", `the plan's folds are time blocks of '${fold.timeColumn}', and ${r.missing} rows of the input have no '${fold.timeColumn}'; filter or fill them first`);
+  if (r.unread > 0) throw new TailsiftError("bad_input", `the plan's folds are time blocks of '${fold.timeColumn}', and ${r.unread} values of it do not read as a date/time (e.g. ${JSON.stringify(r.example)})`);
+}
+
 /** Time-ordered blocks over `timeColumn` with k − 1 cut points (validated). */
 export function timeBlockFolds(timeColumn: string, boundaries: readonly string[], k: number, seed: number): FoldContract {
   checkFoldCount(k);
