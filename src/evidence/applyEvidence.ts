@@ -9,7 +9,7 @@ import type { AdvicePolicy } from "../advice/policy.js";
 import { count, num, pct } from "../advice/words.js";
 import { describeParent } from "../hierarchy/parent.js";
 import type { ColumnProfile, PriorWeight, Recommendation } from "../profile/types.js";
-import { forwardComparisonText, forwardWeightText } from "./forward.js";
+import { forwardComparisonText, withForwardWeight } from "./forward.js";
 import { gainText, relativeGain } from "./margin.js";
 import { fmt, label } from "./oneSe.js";
 import type { Evidence, EvidenceCandidate } from "./types.js";
@@ -57,6 +57,11 @@ function asRecommendation(c: Exclude<EvidenceCandidate, { candidate: "overall-me
  * answer stands, the evidence's own preference is not quoted as if it were the decision.
  */
 export function applyEvidence(column: ColumnProfile, evidence: Evidence, policy: AdvicePolicy): Recommendation {
+  // --time: a flat target encoding takes the prior weight chosen for forward loss (evidence/forward)
+  return withForwardWeight(decide(column, evidence, policy), evidence);
+}
+
+function decide(column: ColumnProfile, evidence: Evidence, policy: AdvicePolicy): Recommendation {
   const was = column.recommendation;
   if (was.overridden) return was;
   const chosen = evidence.candidates.find((c) => c.candidate === evidence.chosen);
@@ -78,12 +83,9 @@ export function applyEvidence(column: ColumnProfile, evidence: Evidence, policy:
     return { ...was, reasons: [...was.reasons, comparison,
       `The rules' choice (${was.encoding}) stands: the evidence's choice, ${label(chosen.candidate)}, is not taken, because without a hierarchy an identifier-like column's out-of-fold score overstates how it generalises to new levels.`] };
   }
-  const forwardWeight = evidence.forwardWeight && chosen.candidate === "target-kfold" ? evidence.forwardWeight : undefined;
-  const told = [`Evidence: ${evidence.reason}`, comparison, ...(forwardWeight ? [forwardWeightText(forwardWeight)] : [])];
+  const told = [`Evidence: ${evidence.reason}`, comparison];
   const encoding = chosen.candidate === "pooled-one-hot" ? "pooled-one-hot" : "target-kfold";
   const sameAsRules = encoding === was.encoding && (chosen.candidate === "pooled-one-hot" || chosen.candidate === "target-kfold");
-  // --time: the flat candidate's weight was chosen for forward loss (evidence/forward); it replaces the rules' fitted m
-  if (sameAsRules && forwardWeight && chosen.candidate === "target-kfold" && was.encoding === "target-kfold") return { ...was, params: chosen.params, reasons: [...was.reasons, ...told] };
   if (sameAsRules) return { ...was, reasons: [...was.reasons, ...told] };
   const rec = asRecommendation(chosen, [headline(chosen, evidence.folds), ...told, `The rules alone advised ${was.encoding}: ${was.reasons[0] ?? ""}`]);
   const cautions = cautionsFor(column, rec);

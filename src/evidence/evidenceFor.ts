@@ -79,7 +79,7 @@ export async function evidenceFor(
     out.set(col, {
       metric, folds: policy.folds, rows: target.rows, candidates,
       best: choice.best.candidate, chosen: choice.candidate.candidate, rule: "one-standard-error", threshold: choice.threshold,
-      reason: forward ? forwardReasonPrefix(policy.folds) + choice.reason : choice.reason,
+      reason: forward ? forwardReasonPrefix(policy.folds) + choice.reason.replaceAll("out-of-fold", "forward") : choice.reason,
       ...(forward ? { validation: "forward" as const, kfold, ...(forward.weight ? { forwardWeight: forward.weight } : {}) } : {}),
     });
   }

@@ -26,6 +26,7 @@ import type { AdvicePolicy } from "../advice/policy.js";
 import type { Engine } from "../engine/db.js";
 import type { ColumnProfile, TargetKind } from "../profile/types.js";
 import type { ForwardWeight } from "../profile/evidenceTypes.js";
+import type { Recommendation } from "../profile/types.js";
 import type { PriorWeight } from "../profile/recommendation.js";
 import { stepMean } from "../stats/stepMean.js";
 import { flatCandidate } from "./candidates.js";
@@ -124,4 +125,15 @@ export function forwardWeightText(w: ForwardWeight): string {
   return w.chosen === w.fitted
     ? `Prior weight: the fitted m = ${weightWords(w.fitted)} has the lowest forward loss of the ${w.tried.length} weights tried (${fmt(w.chosenLoss, 5)}).`
     : `Prior weight chosen for forward loss: m = ${weightWords(w.chosen)} (forward loss ${fmt(w.chosenLoss, 5)}) instead of the fitted m = ${weightWords(w.fitted)}${fitted}, among ${w.tried.length} weights tried; it is chosen on the same steps it is scored on, so its loss is slightly optimistic.`;
+}
+
+/**
+ * A flat target-kfold recommendation (not a user override) takes the weight chosen for forward
+ * loss, with the sentence saying so; any other recommendation, or evidence without a forward
+ * weight, is returned unchanged.
+ */
+export function withForwardWeight(rec: Recommendation, e: Evidence): Recommendation {
+  const w = e.forwardWeight;
+  if (!w || rec.overridden || rec.encoding !== "target-kfold" || rec.params.grouping !== undefined || rec.params.prior !== undefined) return rec;
+  return { ...rec, params: { ...rec.params, weight: w.chosen }, reasons: [...rec.reasons, forwardWeightText(w)] };
 }

@@ -112,6 +112,10 @@ describe("forward evidence", () => {
       expect(kfoldFlat.params).toMatchObject({ weight: w.fitted });
       const kSteps = stepLosses(allBlocks, others, (i) => data.rows[i]![c]!, w.fitted);
       kfoldFlat.foldLosses.forEach((l, i) => expect(l).toBeCloseTo(kSteps[i]!, 10));
+      // the recommendation (target encoding here, whatever the one-SE rule chose) uses the forward weight
+      expect(column.recommendation.encoding).toBe("target-kfold");
+      expect(column.recommendation.params).toMatchObject({ weight: w.chosen });
+      expect(column.recommendation.reasons.join(" ")).toMatch(/Prior weight( chosen for forward loss: m = |: the fitted m = )/);
       // the reasons say how it was scored, and name both figures
       const reasons = column.recommendation.reasons.join(" ");
       expect(reasons).toContain(`Forward log loss (nats per row) over ${K - 1} steps`);
