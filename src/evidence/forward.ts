@@ -12,7 +12,9 @@
  * keeps fold b's loss (recordFoldSums, called by evidence/scoreSql). The restriction is a scope
  * (AsyncLocalStorage) around one builder call, so no candidate's signature changes.
  *
- * Not restricted (stated in the record's reasons): which levels pooled one-hot keeps and which
+ * The backoff groups' weight m is fitted on blocks < b only (forwardFoldFilter pastOnly); the
+ * hierarchical prior's weights are fitted per fold on the other folds, i.e. on blocks < b too.
+ * Not restricted (stated in the README "--time"): which levels pooled one-hot keeps and which
  * levels a backoff grouping pools are chosen from the row counts of all blocks (never the
  * target), as the k-fold evidence does. The forward step has no AUC or R² (the pooled scores of
  * a step mix its fitting blocks): forward candidates carry the loss only.

@@ -11,10 +11,13 @@ import type { FoldSums } from "./foldLoss.js";
 export interface ForwardStep { upTo: number; sums?: FoldSums[] }
 const scope = new AsyncLocalStorage<ForwardStep>();
 
-/** Within a forward step: ` AND <alias.>fold <= b` to append to a level-table WHERE; else "". */
-export function forwardFoldFilter(alias?: string): string {
+/**
+ * Within a forward step: ` AND <alias.>fold <= b` to append to a level-table WHERE (the scored
+ * block and its past), or with `pastOnly` ` < b` (a fit that must not see the scored block); else "".
+ */
+export function forwardFoldFilter(alias?: string, pastOnly = false): string {
   const step = scope.getStore();
-  return step ? ` AND ${alias ? `${alias}.` : ""}fold <= ${sqlNumber(step.upTo)}` : "";
+  return step ? ` AND ${alias ? `${alias}.` : ""}fold ${pastOnly ? "<" : "<="} ${sqlNumber(step.upTo)}` : "";
 }
 
 /** Called by scorePredictions with its per-fold sums: a forward step keeps them. */

@@ -27,7 +27,7 @@ export async function groupedTargetScore(engine: Engine, col: number, column: Co
   const [sums] = await engine.rows<{ levels: number; rows: number; sumY: number; sumY2: number; sumSumSqOverRows: number; sumRowsSq: number }>(
     `SELECT count(*)::DOUBLE AS levels, sum(gn) AS rows, sum(gs) AS sumY, sum(gs2) AS sumY2, sum(gs * gs / gn) AS sumSumSqOverRows, sum(gn * gn) AS sumRowsSq
      FROM (SELECT b.gd, b.gk, sum(l.n_y)::DOUBLE AS gn, sum(l.sum_y)::DOUBLE AS gs, sum(l.sum_y2)::DOUBLE AS gs2
-           FROM ${LEVEL_TABLE} l JOIN ${BACKOFF_TABLE} b ON l.level = b.level WHERE l.col = ${sqlNumber(col)} AND l.n_y > 0${forwardFoldFilter("l")} GROUP BY b.gd, b.gk)`,
+           FROM ${LEVEL_TABLE} l JOIN ${BACKOFF_TABLE} b ON l.level = b.level WHERE l.col = ${sqlNumber(col)} AND l.n_y > 0${forwardFoldFilter("l", true)} GROUP BY b.gd, b.gk)`,
     "summing the target by backoff group");
   const prior = fitPrior(kind, sums && sums.levels > 0 ? { col, ...sums } : undefined, column.target?.prior.mean ?? 0);
   const score = await scorePredictions(engine, groupedScoredSql(col, { sql: `SELECT level, gd, gk FROM ${BACKOFF_TABLE}` }, prior.weight), kind, what);

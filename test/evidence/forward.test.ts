@@ -155,6 +155,37 @@ describe("forward evidence", () => {
     expect(plain.columns.every((x) => x.target?.leakage.forward === undefined)).toBe(true);
   });
 
+  it("a continuous target: forward squared error and forward R², recounted row by row", async () => {
+    const p = await scan([file], { target: "no_show", targetKind: "continuous", time: "visit_time", folds: K });
+    const c = data.header.indexOf("referral");
+    const column = p.columns.find((x) => x.name === "referral")!;
+    const e = column.evidence!;
+    expect(e.metric).toBe("squared-error");
+    /** Per step: the scored rows' predictions from blocks < b with weight m (group null = prior only). */
+    const predictions = (m: number | null, useLevel: boolean) => forwardSteps.map((b) => {
+      const fit = before(b);
+      const prior = fit.reduce((s, i) => s + y[i]!, 0) / fit.length;
+      const sums = new Map<string, { n: number; s: number }>();
+      for (const i of fit) { const k = data.rows[i]![c]!; const v = sums.get(k) ?? { n: 0, s: 0 }; v.n += 1; v.s += y[i]!; sums.set(k, v); }
+      return data.rows.map((_, i) => i).filter((i) => block[i] === b).map((i) => {
+        const v = sums.get(data.rows[i]![c]!);
+        return { y: y[i]!, pred: !useLevel || m === null || !v ? prior : (v.s + m * prior) / (v.n + m) };
+      });
+    });
+    const stepSe = (steps: { y: number; pred: number }[][]) => steps.map((rows) => rows.reduce((s, r) => s + (r.y - r.pred) ** 2, 0) / rows.length);
+    const overall = e.candidates.find((x) => x.candidate === "overall-mean")!;
+    stepSe(predictions(null, false)).forEach((l, i) => expect(overall.foldLosses[i]).toBeCloseTo(l, 10));
+    const flat = e.candidates.find((x) => x.candidate === "target-kfold")!;
+    const w = e.forwardWeight!;
+    stepSe(predictions(w.chosen, true)).forEach((l, i) => expect(flat.foldLosses[i]).toBeCloseTo(l, 10));
+    // forward R² of the leakage line: 1 − SSE/SST over every scored row, at the fitted weight
+    const rows = predictions(column.target!.leakage.weightUsed!, true).flat();
+    const mean = rows.reduce((s, r) => s + r.y, 0) / rows.length;
+    const sse = rows.reduce((s, r) => s + (r.y - r.pred) ** 2, 0);
+    const sst = rows.reduce((s, r) => s + (r.y - mean) ** 2, 0);
+    expect(column.target!.leakage.forward!).toBeCloseTo(1 - sse / sst, 10);
+  });
+
   it("without --time the evidence is k-fold only", async () => {
     const p = await scan([file], { target: "no_show", folds: K });
     const e = p.columns.find((x) => x.name === "clinic")!.evidence!;
