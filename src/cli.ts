@@ -45,6 +45,7 @@ export function buildProgram(io: CliIO): Command {
     .option("--folds <k>", "folds for out-of-fold figures", integer("--folds"), DEFAULT_FOLD_COUNT)
     .option("--seed <n>", "seed of the fold assignment", integer("--seed"), DEFAULT_FOLD_SEED)
     .option("--fold-by <names>", "entity-grouped folds: hash these key columns (comma-separated) so every row of an entity shares a fold", list)
+    .option("--time <column>", "time-ordered blocks: cut the rows, ordered by this date/time column, into --folds consecutive blocks; figures are also measured forward (fit on earlier blocks, score the next)")
     .option("--top <n>", "top levels listed per column", integer("--top", 1), 20)
     .option("--max-one-hot <n>", "widest one-hot block advised", integer("--max-one-hot"), 16)
     .option("--min-level-rows <n>", "rows a level needs for its own column", integer("--min-level-rows"), 30)

@@ -20,6 +20,8 @@ export interface AdvicePolicy {
   /** K of the out-of-fold figures and of target-kfold (checked by engine/folds). */
   folds: number;
   seed: number;
+  /** Time-ordered blocks (--time, set by scan from the fold contract): the evidence scores forward (evidence/forward). */
+  forward?: boolean;
   /**
    * Practical margin: a candidate must beat the overall mean by at least this share of its
    * out-of-fold loss (log loss or squared error), besides the one-standard-error rule.

@@ -13,7 +13,7 @@
  * Folds are the scan's: the plan's fold contract (engine/folds, readFoldContract) over the same text view.
  */
 import path from "node:path";
-import { foldSql, readFoldContract, singleFold } from "../engine/folds.js";
+import { checkTimeBlockRows, foldSql, readFoldContract, singleFold } from "../engine/folds.js";
 import { contentFingerprintOf } from "../engine/contentFingerprint.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { describeFiles, openSource, type SourceOptions } from "../engine/source.js";
@@ -93,11 +93,15 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
   const training = o.mode === "training";
   // the plan's fold contract, read once: the pass, the fold column and the manifest all use it
   const folding = training ? readFoldContract(profile.settings) : singleFold();
+  // a time-blocks plan: past-only encodings (each block from the earlier ones), every row needs a time
+  const pastOnly = folding.kind === "time-blocks";
+  if (pastOnly && o.leaveOneOut) throw new TailsiftError("bad_option", "--leave-one-out does not apply to a plan scanned with --time: its training encodings are past-only (each time block encoded from the earlier blocks); drop --leave-one-out");
   const plan = planColumns(profile, source.columns, {
     mode: o.mode, keep: o.keep ?? [], keepOriginal: o.keepOriginal ?? false, foldColumn: o.foldColumn, foldKeys: training ? folding.keyColumns : [],
   });
   if (plan.names.length === 0) throw new TailsiftError("nothing_to_write", "the plan drops every column of the input; nothing to write (use --keep to pass columns through)");
   const names = plan.encoded.map((c) => c.name);
+  if (pastOnly) await checkTimeBlockRows(engine, source.view, folding);
   const folds = training ? folding.k : profile.settings.folds;
   const target = profile.target ? { column: profile.target.column, kind: profile.target.kind, ...(profile.target.positive !== undefined ? { positive: profile.target.positive } : {}) } : undefined;
   const targetEncoded = plan.encoded.some((c) => c.spec.encoding === "target-kfold");
@@ -126,7 +130,7 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
 
   const maps = new Map<number, ColumnMap>();
   for (const column of plan.encoded) {
-    const map = await encoderFor(column).buildMap(engine, column, { mode: o.mode, leaveOneOut: o.leaveOneOut ?? false, folds, targetMean: profile.target?.mean });
+    const map = await encoderFor(column).buildMap(engine, column, { mode: o.mode, leaveOneOut: o.leaveOneOut ?? false, folds, targetMean: profile.target?.mean, ...(pastOnly ? { pastOnly } : {}) });
     if (map) maps.set(column.index, map);
   }
   const lookup = o.lookup === undefined || o.lookup === "auto" ? await chooseLookup(engine, [...maps.values()].map((m) => m.table)) : o.lookup;

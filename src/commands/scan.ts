@@ -6,7 +6,7 @@
 import { DEFAULT_POLICY, validatePolicy, type AdvicePolicy } from "../advice/policy.js";
 import { buildLevelTable } from "../engine/aggregate.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
-import { checkFoldRequest, foldContractFor, type FoldRequest } from "../engine/folds.js";
+import { checkFoldRequest, foldContractFor, timeBlockCuts, type FoldRequest } from "../engine/folds.js";
 import { numberTypeOf, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
 import { normaliseMissingLike } from "../engine/missingLike.js";
 import { checkMeasuredWidth, countSkippedRows, describeFiles, openSource, type Source, type SourceOptions } from "../engine/source.js";
@@ -15,6 +15,7 @@ import { TailsiftError } from "../errors.js";
 import { adviseFromLevelTable } from "../pipeline/advise.js";
 import { planColumnKinds } from "../pipeline/columnKinds.js";
 import { addFoldNotes } from "../pipeline/foldNotes.js";
+import { addForwardFigures } from "../pipeline/forwardFigures.js";
 import { checkTarget } from "../profile/checkTarget.js";
 import type { Encoding, Profile, TargetKind } from "../profile/types.js";
 
@@ -77,8 +78,9 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
   if (options.target !== undefined) checkNames(source, [options.target], "--target");
   // the fold of a row reads every column of the input, in file order (or, with --fold-by, the key);
   // the advice's K (target-kfold, evidence) is the contract's
-  const fold = foldContractFor(options, source.columns, options.target);
-  const policy: AdvicePolicy = { ...basePolicy, folds: fold.k, seed: fold.seed };
+  // with --time, one cheap query first: the time column's cut points (engine/folds timeBlockCuts)
+  const fold = foldContractFor(options, source.columns, options.target, await timeBlockCuts(engine, source.view, options, source.columns, options.target));
+  const policy: AdvicePolicy = { ...basePolicy, folds: fold.k, seed: fold.seed, ...(fold.kind === "time-blocks" ? { forward: true } : {}) };
   for (const name of Object.keys(options.decide ?? {})) checkNames(source, [name], "--decide");
 
   const chosen = options.columns && options.columns.length > 0 ? new Set(options.columns) : null;
@@ -119,6 +121,7 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
     if (sample) c.numberType = numberTypeOf(sample);
   }
   await addFoldNotes(engine, source.view, profile, levelColumns, fold);
+  await addForwardFigures(engine, profile, levelColumns, fold);
   profile.settings.fold = fold; // the contract encode reads back (engine/folds readFoldContract)
   return profile;
 }

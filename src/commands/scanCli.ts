@@ -131,7 +131,7 @@ export async function runReport(profilePath: string, out: string, io: IO): Promi
  * level tables; --folds only matters for a one-fold table (the K recorded for target-kfold).
  */
 export function levelScanOptions(o: ScanCliOptions, onEngine: (e: Engine | null) => void): LevelScanOptions {
-  const refused = [o.foldBy !== undefined ? "--fold-by" : "", o.asCategorical?.length ? "--as-categorical" : "", o.skipBadRows ? "--skip-bad-rows" : "", o.encoding ? "--encoding" : "", o.missingLike?.length ? "--missing-like (give it to tailsift sql)" : ""].filter((x) => x);
+  const refused = [o.foldBy !== undefined ? "--fold-by" : "", o.time !== undefined ? "--time" : "", o.asCategorical?.length ? "--as-categorical" : "", o.skipBadRows ? "--skip-bad-rows" : "", o.encoding ? "--encoding" : "", o.missingLike?.length ? "--missing-like (give it to tailsift sql)" : ""].filter((x) => x);
   if (refused.length > 0) throw new TailsiftError("bad_option", `${refused.join(", ")} do${refused.length === 1 ? "es" : ""} not apply to --levels: level tables are already counted`);
   return { ...o, policy: policyOptions(o), levelTableOut: o.out && !o.redact ? path.join(o.out, LEVEL_FILE_NAME) : undefined, onEngine };
 }

@@ -37,11 +37,11 @@ export async function backoffFullMap(engine: Engine, i: number, from: string, na
 }
 
 /** Creates mapTable(i); needs groupsTable(i) from the same sums and foldPriorTable(i). */
-export async function backoffFoldMap(engine: Engine, i: number, from: string, name: string, weight: number | null): Promise<void> {
+export async function backoffFoldMap(engine: Engine, i: number, from: string, name: string, weight: number | null, pastOnly?: { folds: number }): Promise<void> {
   await engine.run(
     `CREATE OR REPLACE TEMP TABLE ${mapTable(i)} AS
      WITH gf AS (SELECT g.depth, g.group_key, lf.fold, sum(lf.n) AS n, sum(lf.s) AS s
-                 FROM (${levelFoldSumsSql(from, name)}) lf JOIN ${groupTable(i)} g ON g.level = lf.level GROUP BY ALL),
+                 FROM (${levelFoldSumsSql(from, name, pastOnly)}) lf JOIN ${groupTable(i)} g ON g.level = lf.level GROUP BY ALL),
           o AS (SELECT gr.depth, gr.group_key, p.fold, gr.n_y - coalesce(gf.n, 0) AS n_other, gr.sum_y - coalesce(gf.s, 0) AS sum_other, p.prior AS prior_other
                 FROM ${groupsTable(i)} gr CROSS JOIN ${foldPriorTable(i)} p
                 LEFT JOIN gf ON gf.depth = gr.depth AND gf.group_key = gr.group_key AND gf.fold = p.fold)

@@ -45,10 +45,10 @@ export async function hierarchicalFullMap(engine: Engine, i: number, from: strin
 }
 
 /** Creates mapTable(i); needs the full-data tables from the same sums and foldPriorTable(i). */
-export async function hierarchicalFoldMap(engine: Engine, i: number, from: string, name: string, w: Weights): Promise<void> {
+export async function hierarchicalFoldMap(engine: Engine, i: number, from: string, name: string, w: Weights, pastOnly?: { folds: number }): Promise<void> {
   await engine.run(
     `CREATE OR REPLACE TEMP TABLE ${mapTable(i)} AS
-     WITH lf AS (${levelFoldSumsSql(from, name)}),
+     WITH lf AS (${levelFoldSumsSql(from, name, pastOnly)}),
           pf AS (SELECT l.parent, lf.fold, sum(lf.n) AS n, sum(lf.s) AS s FROM lf JOIN ${levelParentTable(i)} l ON l.level = lf.level GROUP BY ALL),
           o AS (SELECT l.level, f.fold, l.parent, l.n_y - coalesce(lf.n, 0) AS n_other, l.sum_y - coalesce(lf.s, 0) AS sum_other,
                        p.n_y - coalesce(pf.n, 0) AS parent_n_other, p.sum_y - coalesce(pf.s, 0) AS parent_sum_other, f.prior AS prior_other

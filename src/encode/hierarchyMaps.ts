@@ -50,8 +50,10 @@ export async function buildHierarchyMap(engine: Engine, column: EncodedColumn, s
     : { suffix: ".parents", table: parentsTable(i), key: "parentFile", order: "parent" };
   const levelTable = s.kind === "backoff" ? groupTable(i) : fullTable(i);
   if (scoring) return { table: fullTable(i), fields: ["value"], perFold: false, files: [mainFile(fullTable(i)), side], levelTable };
-  await foldPriors(engine, i, INPUT_LEVELS, name, ctx.folds);
-  if (s.kind === "backoff") await backoffFoldMap(engine, i, INPUT_LEVELS, name, s.weight);
-  else await hierarchicalFoldMap(engine, i, INPUT_LEVELS, name, s);
+  // time-blocks plans: past-only sums (encode/targetMaps pastSumsSql)
+  const past = ctx.pastOnly ? { folds: ctx.folds } : undefined;
+  await foldPriors(engine, i, INPUT_LEVELS, name, ctx.folds, ctx.pastOnly);
+  if (s.kind === "backoff") await backoffFoldMap(engine, i, INPUT_LEVELS, name, s.weight, past);
+  else await hierarchicalFoldMap(engine, i, INPUT_LEVELS, name, s, past);
   return { table: mapTable(i), fields: ["value"], perFold: true, files: [mainFile(fullTable(i)), side, foldFile(mapTable(i))], levelTable };
 }

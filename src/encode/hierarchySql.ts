@@ -7,7 +7,7 @@
 import type { Engine } from "../engine/db.js";
 import { quoteLiteral } from "../engine/sql.js";
 import { INPUT_LEVELS, PLAN_LEVELS } from "./levelTables.js";
-import { priorVar, sqlDouble } from "./targetMaps.js";
+import { pastSumsSql, priorVar, sqlDouble } from "./targetMaps.js";
 
 /** A prior weight as SQL: exact DOUBLE, or NULL (infinite: the prior). */
 export const weightSql = (w: number | null): string => (w === null ? "NULL::DOUBLE" : sqlDouble(w));
@@ -39,7 +39,9 @@ export function levelSumsSql(from: string, name: string): string {
 }
 
 /** (level, fold, n, s): the same per fold. */
-export function levelFoldSumsSql(from: string, name: string): string {
-  return `SELECT level, fold, sum(n_y)::DOUBLE AS n, sum(sum_y)::DOUBLE AS s FROM ${from}
+export function levelFoldSumsSql(from: string, name: string, pastOnly?: { folds: number }): string {
+  const perFold = `SELECT level, fold, sum(n_y)::DOUBLE AS n, sum(sum_y)::DOUBLE AS s FROM ${from}
     WHERE name = ${quoteLiteral(name)} AND level IS NOT NULL GROUP BY level, fold`;
+  // past-only (time-blocks plans): the sums over folds ≥ f, so a map's total − it = blocks < f (encode/targetMaps)
+  return pastOnly ? pastSumsSql(perFold, ["level"], ["n", "s"], pastOnly.folds) : perFold;
 }

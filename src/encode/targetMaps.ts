@@ -9,6 +9,13 @@
  *    back to the overall mean); a level with no target rows in the other folds and m = 0 gets
  *    the other folds' prior.
  * Formulas as in stats/mEstimate.ts and engine/leakage.ts (the scan's out-of-fold score).
+ *
+ * Past-only (training with a time-blocks plan, --time): every "other folds" sum becomes a sum
+ * over the EARLIER blocks only, with no change to the map formulas: a map subtracts a (level,
+ * fold f) sum from the level's total, and pastSumsSql makes that sum the one over blocks ≥ f, so
+ * total − it = the sum over blocks < f. Block 0 has no earlier rows: its levels and its missing
+ * values take the prior (the fallback of a fold holding every target row: the input's overall
+ * mean — a constant, the same for every row of block 0).
  */
 import type { Engine } from "../engine/db.js";
 import { mEstimateSql } from "../engine/formulaSql.js";
@@ -23,6 +30,18 @@ export const foldPriorVar = (i: number): string => `tailsift_enc_fold_prior_${i}
 
 /** A double as exact SQL (the text round-trips; DuckDB parses it as DOUBLE, not DECIMAL). */
 export const sqlDouble = (x: number): string => `CAST(${quoteLiteral(sqlNumber(x))} AS DOUBLE)`;
+/**
+ * Past-only form of a per-(key…, fold) sums query (`perFold`: columns `keys`, fold, and `sums`):
+ * for each fold f in 0..K−1 the sums over folds ≥ f (a key with no row at fold ≥ f has no row).
+ * Subtracted from a key's total it leaves the sum over folds < f.
+ */
+export function pastSumsSql(perFold: string, keys: readonly string[], sums: readonly string[], folds: number): string {
+  const k = keys.map((c) => `x.${c}`).join(", ");
+  return `SELECT ${k ? `${k}, ` : ""}f.fold, ${sums.map((s) => `sum(x.${s}) AS ${s}`).join(", ")}
+    FROM (${perFold}) x JOIN (SELECT range::INTEGER AS fold FROM range(${sqlNumber(folds)})) f ON x.fold >= f.fold
+    GROUP BY ${k ? `${k}, ` : ""}f.fold`;
+}
+
 /** A flat weight as SQL: null is m = ∞ (NULL: mEstimateSql then gives the prior). */
 const weightOrNull = (m: number | null): string => (m === null ? "NULL::DOUBLE" : sqlDouble(m));
 
@@ -55,11 +74,12 @@ export const foldPriorTable = (i: number): string => `tailsift_enc_fold_prior_t$
  * other folds' target mean over all their rows) and sets the list variable `foldPriorVar(i)`.
  * A fold holding every target row falls back to the overall mean.
  */
-export async function foldPriors(engine: Engine, i: number, from: string, name: string, folds: number): Promise<void> {
+export async function foldPriors(engine: Engine, i: number, from: string, name: string, folds: number, pastOnly = false): Promise<void> {
   const col = quoteLiteral(name);
+  const perFold = `SELECT fold, sum(n_y) AS fn, sum(sum_y) AS fs FROM ${from} WHERE name = ${col} GROUP BY fold`;
   await engine.run(
     `CREATE OR REPLACE TEMP TABLE ${foldPriorTable(i)} AS
-     WITH f AS (SELECT fold, sum(n_y) AS fn, sum(sum_y) AS fs FROM ${from} WHERE name = ${col} GROUP BY fold),
+     WITH f AS (${pastOnly ? pastSumsSql(perFold, [], ["fn", "fs"], folds) : perFold}),
           g AS (SELECT sum(n_y) AS tn, sum(sum_y) AS ts FROM ${from} WHERE name = ${col}),
           k AS (SELECT range::INTEGER AS fold FROM range(${sqlNumber(folds)}))
      SELECT k.fold, CASE WHEN g.tn - coalesce(f.fn, 0) > 0 THEN (g.ts - coalesce(f.fs, 0)) / (g.tn - coalesce(f.fn, 0))
@@ -72,13 +92,15 @@ export async function foldPriors(engine: Engine, i: number, from: string, name: 
  * Creates `mapTable(i)`(level, fold, n_other, sum_other, prior_other, value), dense over every
  * level × fold, and the list variable `foldPriorVar(i)` of the other-folds priors.
  */
-export async function outOfFoldMap(engine: Engine, i: number, from: string, name: string, m: number | null, folds: number): Promise<void> {
+export async function outOfFoldMap(engine: Engine, i: number, from: string, name: string, m: number | null, folds: number, pastOnly = false): Promise<void> {
   const col = quoteLiteral(name);
-  await foldPriors(engine, i, from, name, folds);
+  await foldPriors(engine, i, from, name, folds, pastOnly);
+  const perFold = `SELECT level, fold, sum(n_y) AS n, sum(sum_y) AS s FROM ${from} WHERE name = ${col} AND level IS NOT NULL GROUP BY ALL`;
   await engine.run(
     `CREATE OR REPLACE TEMP TABLE ${mapTable(i)} AS
-     WITH l AS (SELECT level, fold, sum(n_y) AS n, sum(sum_y) AS s FROM ${from} WHERE name = ${col} AND level IS NOT NULL GROUP BY ALL),
-          t AS (SELECT level, sum(n) AS tn, sum(s) AS ts FROM l GROUP BY level),
+     WITH raw AS (${perFold}),
+          l AS (${pastOnly ? pastSumsSql("SELECT * FROM raw", ["level"], ["n", "s"], folds) : "SELECT * FROM raw"}),
+          t AS (SELECT level, sum(n) AS tn, sum(s) AS ts FROM raw GROUP BY level),
           o AS (SELECT t.level, p.fold, t.tn - coalesce(l.n, 0) AS n_other, t.ts - coalesce(l.s, 0) AS sum_other, p.prior AS prior_other
                 FROM t CROSS JOIN ${foldPriorTable(i)} p LEFT JOIN l ON l.level = t.level AND l.fold = p.fold)
      SELECT level, fold, n_other, sum_other, prior_other, ${mEstimateSql("sum_other", "n_other", weightOrNull(m), "prior_other")} AS value FROM o`,

@@ -68,6 +68,11 @@ export interface MapContext {
   mode: EncodeMode;
   leaveOneOut: boolean;
   folds: number;
+  /**
+   * Training with a time-blocks plan (--time): past-only maps — each row of block b encoded from
+   * blocks < b only (encode/targetMaps pastSumsSql); block 0 has no past and takes the prior.
+   */
+  pastOnly?: boolean;
   /** The plan's target mean (p of the scoring mapping). */
   targetMean: number | undefined;
 }

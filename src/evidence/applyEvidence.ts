@@ -9,6 +9,7 @@ import type { AdvicePolicy } from "../advice/policy.js";
 import { count, num, pct } from "../advice/words.js";
 import { describeParent } from "../hierarchy/parent.js";
 import type { ColumnProfile, PriorWeight, Recommendation } from "../profile/types.js";
+import { forwardComparisonText, withForwardWeight } from "./forward.js";
 import { gainText, relativeGain } from "./margin.js";
 import { fmt, label } from "./oneSe.js";
 import type { Evidence, EvidenceCandidate } from "./types.js";
@@ -41,6 +42,7 @@ function headline(c: EvidenceCandidate, folds: number): string {
 export function comparisonText(e: Evidence): string {
   const metric = e.metric === "log-loss" ? "log loss (nats per row)" : "squared error per row";
   const items = e.candidates.map((c) => `${label(c.candidate)} ${fmt(c.loss, 5)} ± ${fmt(c.se, 2)}${c.auc !== undefined ? ` (AUC ${num(c.auc)})` : ""}${c.r2 !== undefined ? ` (R² ${num(c.r2, 4)})` : ""}`);
+  if (e.validation === "forward") return forwardComparisonText(e, metric, items); // --time (evidence/forward)
   return `Out-of-fold ${metric} over ${e.folds} folds, ± one standard error across folds: ${items.join("; ")}.`;
 }
 
@@ -55,6 +57,11 @@ function asRecommendation(c: Exclude<EvidenceCandidate, { candidate: "overall-me
  * answer stands, the evidence's own preference is not quoted as if it were the decision.
  */
 export function applyEvidence(column: ColumnProfile, evidence: Evidence, policy: AdvicePolicy): Recommendation {
+  // --time: a flat target encoding takes the prior weight chosen for forward loss (evidence/forward)
+  return withForwardWeight(decide(column, evidence, policy), evidence);
+}
+
+function decide(column: ColumnProfile, evidence: Evidence, policy: AdvicePolicy): Recommendation {
   const was = column.recommendation;
   if (was.overridden) return was;
   const chosen = evidence.candidates.find((c) => c.candidate === evidence.chosen);

@@ -18,6 +18,8 @@ import { backoffCandidate, hierarchicalCandidate } from "./hierarchyCandidates.j
 import { applyMargin } from "./margin.js";
 import { chooseByOneSeRule } from "./oneSe.js";
 import { pooledTargetCandidate } from "./pooledTarget.js";
+import { forwardCandidates, forwardReasonPrefix, type TaggedBuilder } from "./forward.js";
+import { inForwardStep } from "./forwardScope.js";
 import type { Evidence, EvidenceCandidate } from "./types.js";
 
 /** Rule outcomes that evidence may revise; the others (drop, indicator, one-hot, hashing, codes) stand. */
@@ -53,27 +55,36 @@ export async function evidenceFor(
     const column = columns[col]!;
     const h = hierarchy.get(col);
     const built: (EvidenceCandidate | null)[] = [];
+    // the k-fold builds reuse the batched overall mean and the leakage's flat scores; a forward
+    // step (evidence/forwardScope) restricts the folds, so it always runs the candidate's own SQL
+    const builders: TaggedBuilder[] = [{
+      build: () => overall && !inForwardStep() ? Promise.resolve(overall.get(col) ?? null) : overallMeanCandidate(engine, col, kind),
+    }];
+    const pooledOnly = column.role === "identifier" && !(h?.useful === true && !h.counterLike);
+    if (pooledOnly) {
+      // identifier without a usable hierarchy: the repeated levels against the column unused
+      builders.push({ build: () => pooledTargetCandidate(engine, col, column, kind, policy) });
+    } else {
+      builders.push({ build: () => pooledCandidate(engine, col, column, kind, policy) });
+      builders.push({ flat: true, build: () => flatCandidate(engine, col, column, kind, policy, inForwardStep() ? undefined : sharedFlat) });
+    }
+    if (h && !h.counterLike && !pooledOnly) {
+      builders.push({ build: () => backoffCandidate(engine, col, column, h, kind, policy) });
+      builders.push({ build: () => hierarchicalCandidate(engine, col, column, h, kind, policy) });
+    }
+    let forward: Awaited<ReturnType<typeof forwardCandidates>> | undefined;
     try {
-      built.push(overall ? (overall.get(col) ?? null) : await overallMeanCandidate(engine, col, kind));
-      const pooledOnly = column.role === "identifier" && !(h?.useful === true && !h.counterLike);
-      if (pooledOnly) {
-        // identifier without a usable hierarchy: the repeated levels against the column unused
-        built.push(await pooledTargetCandidate(engine, col, column, kind, policy));
-      } else {
-        built.push(await pooledCandidate(engine, col, column, kind, policy));
-        built.push(await flatCandidate(engine, col, column, kind, policy, sharedFlat));
-      }
-      if (h && !h.counterLike && !pooledOnly) {
-        built.push(await backoffCandidate(engine, col, column, h, kind, policy));
-        built.push(await hierarchicalCandidate(engine, col, column, h, kind, policy));
-      }
+      for (const b of builders) built.push(await b.build());
+      // time-ordered blocks: the same candidates scored forward decide (evidence/forward)
+      if (policy.forward) forward = await forwardCandidates(engine, col, column, kind, policy, builders);
     } catch (err) {
       // a tight --memory-limit: this column's evidence is skipped (the caller says so), the scan goes on
       if (!(isTailsiftError(err) && err.code === "out_of_memory")) throw err;
       skipped?.add(col);
       continue;
     }
-    const candidates = built.filter((c): c is EvidenceCandidate => c !== null);
+    const kfold = built.filter((c): c is EvidenceCandidate => c !== null);
+    const candidates = forward ? forward.candidates : kfold;
     // an identifier with no level reaching minLevelRows has nothing to pool: no comparison to show
     if (candidates.length < 2 && column.role === "identifier") continue;
     const oneSe = chooseByOneSeRule({ candidates, metric });
@@ -81,7 +92,9 @@ export async function evidenceFor(
     if (!choice) continue;
     out.set(col, {
       metric, folds: policy.folds, rows: target.rows, candidates,
-      best: choice.best.candidate, chosen: choice.candidate.candidate, rule: "one-standard-error", threshold: choice.threshold, reason: choice.reason,
+      best: choice.best.candidate, chosen: choice.candidate.candidate, rule: "one-standard-error", threshold: choice.threshold,
+      reason: forward ? forwardReasonPrefix(policy.folds) + choice.reason.replaceAll("out-of-fold", "forward") : choice.reason,
+      ...(forward ? { validation: "forward" as const, kfold, ...(forward.weight ? { forwardWeight: forward.weight } : {}) } : {}),
     });
   }
   return out;

@@ -11,6 +11,7 @@
 import { sqlNumber } from "../engine/sql.js";
 import { LEVEL_TABLE } from "../engine/aggregate.js";
 import { baseCtes, foldPriorCtes, mEstimateSql } from "./baseSql.js";
+import { inForwardStep } from "./forwardScope.js";
 
 /**
  * A mapping is a query of (level, gd, gk) for non-missing levels — gd/gk identify the group (see
@@ -23,7 +24,8 @@ export type GroupMapping = "identity" | "none" | { sql: string; carriesTotals?: 
 /** The (fold, n, s, s2, pred) query of a grouped candidate with weight m ≥ 0 (null = infinite: every group takes the prior). */
 export function groupedScoredSql(col: number, mapping: GroupMapping, weight: number | null): string {
   const m = weight === null ? "NULL::DOUBLE" : `${sqlNumber(weight)}::DOUBLE`;
-  if (typeof mapping === "object" && mapping.carriesTotals) return groupTotalsScoredSql(col, mapping.sql, m);
+  // the carried totals span every fold: a forward step (folds restricted) sums the level table instead
+  if (typeof mapping === "object" && mapping.carriesTotals && !inForwardStep()) return groupTotalsScoredSql(col, mapping.sql, m);
   const lg = mapping === "identity"
     ? "SELECT lf.*, CASE WHEN level IS NULL THEN NULL ELSE 0 END AS gd, level AS gk FROM lf"
     : mapping === "none"

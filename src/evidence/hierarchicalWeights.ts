@@ -15,6 +15,7 @@ import type { ParentSpec } from "../hierarchy/types.js";
 import { fitPrior } from "../profile/targetFigures.js";
 import type { TargetKind } from "../profile/types.js";
 import { nestedPriorWeight } from "../stats/nestedPriorWeight.js";
+import { forwardFoldFilter } from "./forwardScope.js";
 
 export interface FoldWeights { fold: number; parentWeight: number | null; levelWeight: number | null; method: string }
 
@@ -24,7 +25,7 @@ interface FoldSums { fold: number; parents: number; rows: number; sumY: number; 
 export async function hierarchicalWeights(engine: Engine, col: number, parent: ParentSpec, kind: TargetKind, overallMean: number): Promise<FoldWeights[]> {
   const sums = await engine.rows<FoldSums>(
     `WITH lf AS (SELECT level, fold, sum(n_y)::DOUBLE AS n, sum(sum_y)::DOUBLE AS s, sum(sum_y2)::DOUBLE AS s2 FROM ${LEVEL_TABLE}
-                 WHERE col = ${sqlNumber(col)} AND n_y > 0 AND level IS NOT NULL GROUP BY level, fold),
+                 WHERE col = ${sqlNumber(col)} AND n_y > 0 AND level IS NOT NULL${forwardFoldFilter()} GROUP BY level, fold),
           lt AS (SELECT level, ${parentSql(parent, "level")} AS parent, sum(n) AS n, sum(s) AS s, sum(s2) AS s2 FROM lf GROUP BY level),
           pt AS (SELECT parent, sum(n) AS n, sum(s) AS s, sum(s2) AS s2, sum(n * n) AS nn, sum(s * s / n) AS ss, count(*) AS k FROM lt GROUP BY parent),
           d AS (SELECT lt.parent, lf.fold, sum(lf.n) AS n, sum(lf.s) AS s, sum(lf.s2) AS s2,
@@ -32,7 +33,7 @@ export async function hierarchicalWeights(engine: Engine, col: number, parent: P
                   sum(CASE WHEN lt.n - lf.n > 0 THEN (lt.s - lf.s) * (lt.s - lf.s) / (lt.n - lf.n) ELSE 0 END - lt.s * lt.s / lt.n) AS ss,
                   count(*) FILTER (WHERE lt.n - lf.n <= 0) AS k
                 FROM lf JOIN lt USING (level) GROUP BY lt.parent, lf.fold),
-          fo AS (SELECT DISTINCT fold FROM ${LEVEL_TABLE} WHERE col = -1 UNION ALL SELECT -1),
+          fo AS (SELECT DISTINCT fold FROM ${LEVEL_TABLE} WHERE col = -1${forwardFoldFilter()} UNION ALL SELECT -1),
           po AS (SELECT fo.fold, pt.n - coalesce(d.n, 0) AS n, pt.s - coalesce(d.s, 0) AS s, pt.s2 - coalesce(d.s2, 0) AS s2,
                    pt.nn + coalesce(d.nn, 0) AS nn, pt.ss + coalesce(d.ss, 0) AS ss, pt.k - coalesce(d.k, 0) AS k
                  FROM pt CROSS JOIN fo LEFT JOIN d ON d.parent = pt.parent AND d.fold = fo.fold)

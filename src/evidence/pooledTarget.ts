@@ -8,12 +8,15 @@
  * fit means no detectable spread between groups, and every group then takes the prior (m = ∞).
  */
 import type { AdvicePolicy } from "../advice/policy.js";
+import { LEVEL_TABLE } from "../engine/aggregate.js";
 import type { Engine } from "../engine/db.js";
+import { sqlNumber } from "../engine/sql.js";
 import { BACKOFF_TABLE, backoffFigures, buildBackoffMap } from "../hierarchy/backoff.js";
 import type { ParentSpec } from "../hierarchy/types.js";
 import { fitPrior } from "../profile/targetFigures.js";
 import type { ColumnProfile, PriorWeight, TargetKind } from "../profile/types.js";
 import { scored } from "./candidates.js";
+import { forwardFoldFilter, inForwardStep } from "./forwardScope.js";
 import { groupedScoredSql } from "./groupedSql.js";
 import { scorePredictions, type Score } from "./scoreSql.js";
 import type { EvidenceCandidate } from "./types.js";
@@ -21,11 +24,17 @@ import type { EvidenceCandidate } from "./types.js";
 /** Builds BACKOFF_TABLE for (parents shallowest first, minRows), fits m on the groups and scores. */
 export async function groupedTargetScore(engine: Engine, col: number, column: ColumnProfile, parents: readonly ParentSpec[], minRows: number, kind: TargetKind, what: string): Promise<{ weight: PriorWeight; method: string; score: Score | null }> {
   await buildBackoffMap(engine, col, parents, minRows, true);
-  // the map carries each level's target totals: the groups are summed from it alone
+  // the map carries each level's target totals over all folds: the groups are summed from it
+  // alone, except in a forward step (folds restricted), which reads the level table
+  const step = inForwardStep();
   const [sums] = await engine.rows<{ levels: number; rows: number; sumY: number; sumY2: number; sumSumSqOverRows: number; sumRowsSq: number }>(
     `SELECT count(*)::DOUBLE AS levels, sum(gn) AS rows, sum(gs) AS sumY, sum(gs2) AS sumY2, sum(gs * gs / gn) AS sumSumSqOverRows, sum(gn * gn) AS sumRowsSq
-     FROM (SELECT gd, gk, sum(n_y)::DOUBLE AS gn, sum(sum_y)::DOUBLE AS gs, sum(sum_y2)::DOUBLE AS gs2
-           FROM ${BACKOFF_TABLE} WHERE n_y > 0 GROUP BY gd, gk)`,
+     FROM ${step
+       // a forward step: the groups' sums from the level table, blocks before the scored one only
+       ? `(SELECT b.gd, b.gk, sum(l.n_y)::DOUBLE AS gn, sum(l.sum_y)::DOUBLE AS gs, sum(l.sum_y2)::DOUBLE AS gs2
+           FROM ${LEVEL_TABLE} l JOIN ${BACKOFF_TABLE} b ON l.level = b.level WHERE l.col = ${sqlNumber(col)} AND l.n_y > 0${forwardFoldFilter("l", true)} GROUP BY b.gd, b.gk)`
+       : `(SELECT gd, gk, sum(n_y)::DOUBLE AS gn, sum(sum_y)::DOUBLE AS gs, sum(sum_y2)::DOUBLE AS gs2
+           FROM ${BACKOFF_TABLE} WHERE n_y > 0 GROUP BY gd, gk)`}`,
     "summing the target by backoff group");
   const prior = fitPrior(kind, sums && sums.levels > 0 ? { col, ...sums } : undefined, column.target?.prior.mean ?? 0);
   const score = await scorePredictions(engine, groupedScoredSql(col, { sql: `SELECT level, gd, gk, n_y, sum_y, sum_y2, single_fold FROM ${BACKOFF_TABLE}`, carriesTotals: true }, prior.weight), kind, what);

@@ -13,6 +13,7 @@ import type { TargetKind } from "../profile/types.js";
 import { aucFromU } from "../stats/aucFromGroups.js";
 import { rSquaredFromSums } from "../stats/rSquaredFromGroups.js";
 import { foldLoss } from "./foldLoss.js";
+import { recordFoldSums } from "./forwardScope.js";
 
 const SCORED = "tailsift_evidence_scored";
 
@@ -20,7 +21,8 @@ export interface Score { loss: number; se: number | null; foldLosses: number[]; 
 
 /** Runs the candidate's query once (into a temp table) and reads bounded sums back. */
 export async function scorePredictions(engine: Engine, scoredSql: string, kind: TargetKind, what: string): Promise<Score | null> {
-  const scores = await scorePredictionsByColumn(engine, `SELECT 0 AS col, fold, n, s, s2, pred FROM (${scoredSql})`, kind, what);
+  const { scores, folds } = await scoreByColumn(engine, `SELECT 0 AS col, fold, n, s, s2, pred FROM (${scoredSql})`, kind, what);
+  recordFoldSums(folds.get(0) ?? []); // a forward step (evidence/forward) keeps its scored block's sums
   return scores.get(0) ?? null;
 }
 
@@ -30,13 +32,19 @@ export async function scorePredictions(engine: Engine, scoredSql: string, kind: 
  * column). Columns with no rows are absent from the map.
  */
 export async function scorePredictionsByColumn(engine: Engine, scoredSql: string, kind: TargetKind, what: string): Promise<Map<number, Score>> {
+  return (await scoreByColumn(engine, scoredSql, kind, what)).scores;
+}
+
+type FoldRows = { fold: number; rows: number; loss: number };
+
+async function scoreByColumn(engine: Engine, scoredSql: string, kind: TargetKind, what: string): Promise<{ scores: Map<number, Score>; folds: Map<number, FoldRows[]> }> {
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${SCORED} AS ${scoredSql}`, `predicting out-of-fold (${what})`);
   const loss = kind === "binary"
     ? logLossSql("s", "(n - s)", "pred")
     : "s2 - 2 * pred * s + n * pred * pred";
   const folds = await engine.rows<{ col: number; fold: number; rows: number; loss: number }>(
     `SELECT col, fold, sum(n)::DOUBLE AS rows, sum(${loss})::DOUBLE AS loss FROM ${SCORED} GROUP BY col, fold ORDER BY col, fold`, `scoring ${what}`);
-  const byCol = new Map<number, { fold: number; rows: number; loss: number }[]>();
+  const byCol = new Map<number, FoldRows[]>();
   for (const f of folds) byCol.set(f.col, [...(byCol.get(f.col) ?? []), f]);
   const out = new Map<number, Score>();
   const extra = kind === "continuous"
@@ -58,5 +66,5 @@ export async function scorePredictionsByColumn(engine: Engine, scoredSql: string
       out.set(col, { ...summary, rows, auc: u ? aucFromU(u) : null });
     }
   }
-  return out;
+  return { scores: out, folds: byCol };
 }

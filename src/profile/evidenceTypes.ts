@@ -4,7 +4,7 @@
  * each, and at most maxOneHot − 1 level values (the pooled one-hot's kept levels).
  */
 
-import type { BackoffTargetParams, FlatTargetParams, HierarchicalTargetParams, PooledOneHotParams } from "./recommendation.js";
+import type { BackoffTargetParams, FlatTargetParams, HierarchicalTargetParams, PooledOneHotParams, PriorWeight } from "./recommendation.js";
 
 /**
  * Candidates, simplest first — the order the one-standard-error rule prefers:
@@ -45,6 +45,18 @@ export interface ScoredCandidate {
   r2?: number | null;
 }
 
+/** With --time: the forward choice of the flat candidate's prior weight (evidence/forward). */
+export interface ForwardWeight {
+  /** The weight fitted on all rows (moments; null = ∞) and its forward loss. */
+  fitted: PriorWeight;
+  fittedLoss: number | null;
+  /** The weight with the lowest forward loss (the flat candidate's weight) and that loss. */
+  chosen: PriorWeight;
+  chosenLoss: number;
+  /** Every weight tried (null = ∞) and its forward loss. */
+  tried: { weight: PriorWeight; loss: number }[];
+}
+
 export interface Evidence {
   metric: "log-loss" | "squared-error";
   folds: number;
@@ -59,4 +71,12 @@ export interface Evidence {
   /** Best loss + its standard error: any candidate at or below it is "as good". */
   threshold: number;
   reason: string;
+  /**
+   * With --time (time-blocks folds): "forward" — `candidates` were scored forward (fit on blocks
+   * before, score the next; loss = mean over the K − 1 steps, se = their SE) and decided; `kfold`
+   * holds the same candidates scored k-fold over the same blocks, for comparison.
+   */
+  validation?: "forward";
+  kfold?: EvidenceCandidate[];
+  forwardWeight?: ForwardWeight;
 }

@@ -1,4 +1,5 @@
 import type { FoldContract } from "../engine/folds.js";
+import type { ForwardUnseen } from "../engine/forwardUnseen.js";
 import type { TargetKind } from "../engine/target.js";
 import type { Evidence } from "./evidenceTypes.js";
 import type { HierarchyFigures } from "./hierarchyTypes.js";
@@ -90,7 +91,8 @@ export interface ColumnTargetFigures {
   expectedFalseFlags: number;
   /** Levels with an interval (n >= 1 binary, n >= 2 continuous). */
   testedLevels?: number;
-  leakage: { inSample: number | null; outOfFold: number | null; metric: "auc" | "r2"; weightUsed?: PriorWeight };
+  /** forward: with --time, the same encoding scored forward (blocks ≥ 1, each from earlier blocks; engine/forwardLeakage). */
+  leakage: { inSample: number | null; outOfFold: number | null; metric: "auc" | "r2"; weightUsed?: PriorWeight; forward?: number | null };
   /** Funnel-plot points: rate against rows for up to a bounded number of levels (report only). */
   funnel?: { value: string | null; rows: number; rate: number }[];
 }
@@ -140,6 +142,8 @@ export interface ColumnProfile {
   recommendation: Recommendation;
   /** With --fold-by: the share of rows whose level stays within one entity of the key (engine/keyNesting). */
   keyNesting?: { keyColumns: string[]; share: number };
+  /** With --time: the unseen-level share measured forward over the time blocks (engine/forwardUnseen). */
+  forwardUnseen?: ForwardUnseen;
 }
 
 export interface NumericValues {

@@ -20,6 +20,8 @@ export interface EvidenceRow {
   loss: string;
   se: string;
   score: string;
+  /** The number cells in table order: loss, ± SE, (with forward evidence: k-fold loss, ± SE,) score. */
+  numbers: string[];
   /** "best", "chosen", "best and chosen", "within 1 SE" (at or below the threshold) or "". */
   mark: string;
   chosen: boolean;
@@ -98,7 +100,15 @@ export function candidateParamsText(c: EvidenceCandidate): string {
 /** Column headings of the evidence table. */
 export function evidenceHeader(e: Evidence): string[] {
   const metric = e.metric === "log-loss" ? "log loss" : "squared error";
-  return ["candidate", "key parameters", `out-of-fold ${metric}`, "± SE", e.metric === "log-loss" ? "AUC" : "R²", "one-SE rule"];
+  const score = e.metric === "log-loss" ? "AUC" : "R²";
+  // --time: the forward figures decide; the k-fold ones over the same blocks sit beside them
+  if (e.validation === "forward") return ["candidate", "key parameters", `forward ${metric}`, "± SE", `${e.folds}-fold ${metric}`, "± SE", `${e.folds}-fold ${score}`, "one-SE rule (forward)"];
+  return ["candidate", "key parameters", `out-of-fold ${metric}`, "± SE", score, "one-SE rule"];
+}
+
+/** The section title of the evidence table. */
+export function evidenceTitle(e: Evidence): string {
+  return e.validation === "forward" ? "Evidence (forward in time, with k-fold beside)" : "Evidence (out-of-fold)";
 }
 
 /**
@@ -110,10 +120,14 @@ export function evidenceRows(e: Evidence): EvidenceRow[] {
   return e.candidates.map((c) => {
     const within = finite(c.loss) && c.loss <= e.threshold;
     const marks = [c.candidate === e.best ? "best" : "", c.candidate === e.chosen ? "chosen" : ""].filter((m) => m !== "");
-    const score = e.metric === "log-loss" ? c.auc : c.r2;
+    const k = e.validation === "forward" ? e.kfold?.find((x) => x.candidate === c.candidate) : undefined;
+    const scored = e.validation === "forward" ? k : c;
+    const score = formatNumber(e.metric === "log-loss" ? scored?.auc : scored?.r2, 3);
+    const loss = formatNumber(c.loss, decimals), se = formatNumber(c.se, decimals);
+    const numbers = e.validation === "forward" ? [loss, se, formatNumber(k?.loss, decimals), formatNumber(k?.se, decimals), score] : [loss, se, score];
     return {
-      candidate: label(c.candidate), params: candidateParamsText(c),
-      loss: formatNumber(c.loss, decimals), se: formatNumber(c.se, decimals), score: formatNumber(score, 3),
+      candidate: label(c.candidate), params: candidateParamsText(c), numbers,
+      loss, se, score,
       mark: marks.length > 0 ? marks.join(" and ") : within ? "within 1 SE" : "", chosen: c.candidate === e.chosen, best: c.candidate === e.best,
     };
   });
@@ -149,7 +163,9 @@ export function evidenceNotes(column: ColumnProfile): EvidenceNotes | null {
   const e = column.evidence;
   if (!e) return null;
   const threshold = `One-standard-error threshold: ${formatNumber(e.threshold, lossDecimals(e))} (the best loss plus its standard error); `
-    + `${formatCount(e.folds)} folds, ${formatCount(e.rows)} rows scored.`;
+    + (e.validation === "forward"
+      ? `${formatCount(e.folds - 1)} forward steps over ${formatCount(e.folds)} time blocks (block 0 is fit-only).`
+      : `${formatCount(e.folds)} folds, ${formatCount(e.rows)} rows scored.`);
   const rec = column.recommendation;
   const mine = candidateOf(rec);
   const chose = rec.encoding === "target-kfold" && mine !== null ? label(mine) : rec.encoding;

@@ -78,6 +78,12 @@ function rowsWithShare(rows: number, total: number): string {
   return `${formatCount(rows)} (${formatShare(total > 0 ? rows / total : null)})`;
 }
 
+/** The forward unseen-level share (--time), read beside the Good–Turing forecast above it. */
+function forwardUnseenFigure(f: NonNullable<ColumnProfile["forwardUnseen"]>): Figure {
+  const se = f.se === null ? "" : ` ± ${formatShare(f.se, 2)} SE`;
+  return { label: "unseen-level share forward in time", value: `${formatShare(f.mean, 2)}${se} (mean over ${f.steps.length} steps: blocks seen before vs the next); last block ${formatShare(f.last, 2)}` };
+}
+
 /** The key figures of one column, in the order both renderers show them (rows and missing only
  * for columns not profiled as levels). */
 export function keyFigures(column: ColumnProfile, profile: Profile): Figure[] {
@@ -95,6 +101,7 @@ export function keyFigures(column: ColumnProfile, profile: Profile): Figure[] {
     { label: "distinct levels", value: formatCount(column.distinct) },
     { label: "singletons (levels seen once)", value: formatCount(column.singletons) },
     { label: "unseen-level rate (Good–Turing)", value: formatShare(column.unseenRate, 2) + interval },
+    ...(column.forwardUnseen ? [forwardUnseenFigure(column.forwardUnseen)] : []),
     { label: "effective levels (exp entropy)", value: `${formatCompact(column.effectiveLevels, 3)} (${formatNumber(column.entropyBits, 2)} bits)` },
     { label: `levels covering ${formatShare(target, 0)} of rows`, value: formatCount(cover?.levels) },
   ];
@@ -113,7 +120,7 @@ export function keyFigures(column: ColumnProfile, profile: Profile): Figure[] {
       { label: "prior weight m", value: `${formatCompact(t.prior.weight)} (${t.prior.method}; prior mean ${formatCompact(t.prior.mean)})` },
       { label: "flagged levels", value: `${formatCount(t.flaggedLevels)} flagged vs ${formatNumber(t.expectedFalseFlags, 1)} expected false flags`
         + (t.testedLevels === undefined ? "" : ` (${formatCount(t.testedLevels)} levels tested)`) },
-      { label: `leakage (${metric})`, value: `in-sample ${formatNumber(t.leakage.inSample, 3)}, out-of-fold ${formatNumber(t.leakage.outOfFold, 3)}` },
+      { label: `leakage (${metric})`, value: `in-sample ${formatNumber(t.leakage.inSample, 3)}, out-of-fold ${formatNumber(t.leakage.outOfFold, 3)}${t.leakage.forward !== undefined ? `, forward ${formatNumber(t.leakage.forward, 3)}` : ""}` },
     );
   }
   if (column.hashing) {
@@ -153,7 +160,7 @@ export function inputNotes(profile: Profile): string[] {
   const notes: string[] = [];
   if (profile.input.redacted) notes.push("Level values are redacted in this profile: the labels shown are stand-ins, not the values in the data.");
   if (profile.input.fromLevels) notes.push("Profiled from a level table (tailsift sql, then scan --levels), not from the raw rows.");
-  if (profile.settings.fold?.kind === "grouped") notes.push(`Folds: ${foldKindText(profile.settings.fold)}.`);
+  if (profile.settings.fold?.kind === "grouped" || profile.settings.fold?.kind === "time-blocks") notes.push(`Folds: ${foldKindText(profile.settings.fold)}.`);
   notes.push(...roleNotes(profile));
   return notes;
 }

@@ -9,7 +9,7 @@ import { chartSvg, collisionChartSpec, coverageChartSpec, evidenceChartSpec, fun
 import { CONTROL_CHARACTERS, controlEscape, escapeHtml } from "./escape.js";
 import { formatCompact, formatCount, formatShare } from "./format.js";
 import {
-  backoffFigures, evidenceHeader, evidenceNotes, evidenceRows, hierarchyNotes, parentHeader, parentRows,
+  backoffFigures, evidenceHeader, evidenceNotes, evidenceTitle, evidenceRows, hierarchyNotes, parentHeader, parentRows,
 } from "./evidence-figures.js";
 import {
   STANDING_CAUTIONS, distinctText, headerFigures, inputNotes, keyFigures, levelText, overrideText, paramValueText,
@@ -109,15 +109,16 @@ async function evidenceSection(column: ColumnProfile): Promise<string> {
   if (!e) return "";
   const rowClass = (r: { chosen: boolean; best: boolean }) => [r.chosen ? "chosen" : "", r.best ? "best" : ""].filter((c) => c !== "").join(" ");
   const rows = evidenceRows(e).map((r) => `<tr${rowClass(r) ? ` class="${rowClass(r)}"` : ""}><td>${h(r.candidate)}</td><td class="params">${h(r.params)}</td>`
-    + `${[r.loss, r.se, r.score].map((c) => `<td class="num">${h(c)}</td>`).join("")}<td class="mark">${h(r.mark)}</td></tr>`);
+    + `${r.numbers.map((c) => `<td class="num">${h(c)}</td>`).join("")}<td class="mark">${h(r.mark)}</td></tr>`);
   const table = `<table class="evidence">\n${headRow(evidenceHeader(e))}\n<tbody>\n${rows.join("\n")}\n</tbody></table>`;
-  const chart = await chartFigure(evidenceChartSpec(column), `Each candidate's out-of-fold ${e.metric === "log-loss" ? "log loss" : "squared error"} `
-    + `(lower is better) with ±1 standard error across the ${e.folds} folds. Dashed line: the one-standard-error threshold; `
+  const across = e.validation === "forward" ? `forward ${e.metric === "log-loss" ? "log loss" : "squared error"} (lower is better) with ±1 standard error across the ${e.folds - 1} forward steps`
+    : `out-of-fold ${e.metric === "log-loss" ? "log loss" : "squared error"} (lower is better) with ±1 standard error across the ${e.folds} folds`;
+  const chart = await chartFigure(evidenceChartSpec(column), `Each candidate's ${across}. Dashed line: the one-standard-error threshold; `
     + "the simplest candidate at or left of it is chosen (red).");
   const notes = evidenceNotes(column);
   const override = notes?.override ? `\n<p class="note">${h(notes.override)}</p>` : "";
   const said = `<div class="evidence-notes">\n<p>${h(notes?.reason ?? "")}</p>\n<p>${h(notes?.threshold ?? "")}</p>${override}\n</div>`;
-  return `<h3>Evidence (out-of-fold)</h3>\n${table}\n<div class="split">\n${chart}\n${said}\n</div>`;
+  return `<h3>${h(evidenceTitle(e))}</h3>\n${table}\n<div class="split">\n${chart}\n${said}\n</div>`;
 }
 
 /** Detected structure: pattern, candidate parents and the backoff grouping. */

@@ -8,7 +8,7 @@ import type { ColumnProfile, LevelFigure, Profile, ProfileTarget } from "../prof
 import { escapeMarkdownCell, escapeMarkdownText } from "./escape.js";
 import { formatCompact, formatCount, formatShare } from "./format.js";
 import {
-  backoffFigures, evidenceHeader, evidenceNotes, evidenceRows, hierarchyNotes, parentHeader, parentRows,
+  backoffFigures, evidenceHeader, evidenceNotes, evidenceTitle, evidenceRows, hierarchyNotes, parentHeader, parentRows,
 } from "./evidence-figures.js";
 import {
   STANDING_CAUTIONS, decisionText, distinctText, headerFigures, inputNotes, keyFigures, levelText, paramValueText,
@@ -72,11 +72,11 @@ function evidenceSection(column: ColumnProfile): string[] {
   const lines = [row(header), `| ${header.map(() => "---").join(" | ")} |`];
   for (const r of evidenceRows(e)) {
     const name = r.chosen ? `**${escapeMarkdownCell(r.candidate)}**` : escapeMarkdownCell(r.candidate);
-    lines.push(`| ${name} | ${[r.params, r.loss, r.se, r.score, r.mark].map(escapeMarkdownCell).join(" | ")} |`);
+    lines.push(`| ${name} | ${[r.params, ...r.numbers, r.mark].map(escapeMarkdownCell).join(" | ")} |`);
   }
   const notes = evidenceNotes(column);
   const said = notes ? [notes.reason, notes.threshold, ...(notes.override ? [notes.override] : [])] : [];
-  return ["**Evidence (out-of-fold)**", "", ...lines, "", ...said.flatMap((n) => [escapeMarkdownText(n), ""])];
+  return [`**${evidenceTitle(e)}**`, "", ...lines, "", ...said.flatMap((n) => [escapeMarkdownText(n), ""])];
 }
 
 /** Detected structure: pattern, candidate parents and the backoff grouping. */

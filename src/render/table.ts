@@ -38,6 +38,12 @@ export function renderTable(profile: Profile): string {
   const placeholders = profile.columns.some((c) => c.placeholders !== undefined);
   const head = ["column", "role", "distinct", "missing", ...(placeholders ? ["missing-like"] : []), "top-1", "95% levels", "unseen", ...(withTarget ? ["top rates", "m", "AUC in/oof"] : []), "advice", "params"];
   if (withTarget && profile.target?.kind === "continuous") head[head.indexOf("AUC in/oof")] = "R² in/oof";
+  // --time: forward figures beside (unseen: Good–Turing / forward share; leakage: in / oof / forward)
+  const forward = profile.settings.fold?.kind === "time-blocks";
+  if (forward) {
+    head[head.indexOf("unseen")] = "unseen GT/fwd";
+    if (withTarget) head[head.length - 3] += "/fwd";
+  }
   const table = new Table({ head, style: { head: [], border: [], compact: true } });
   for (const c of profile.columns) {
     const measured = c.role !== "numeric" && c.role !== "time" && c.role !== "target" && c.role !== "excluded" && c.numericValues === undefined;
@@ -48,12 +54,12 @@ export function renderTable(profile: Profile): string {
       ...(placeholders ? [placeholderShareText(c)] : []),
       measured ? formatShare(c.topLevels[0]?.share ?? 0) : "",
       measured ? formatCount(c.coverage.find((x) => x.share === 0.95)?.levels ?? 0) : "",
-      measured ? formatShare(c.unseenRate, 2) : "",
+      measured ? formatShare(c.unseenRate, 2) + (forward && c.forwardUnseen ? `/${formatShare(c.forwardUnseen.mean, 2)}` : "") : "",
     ];
     if (withTarget) {
       const t = c.target;
       row.push(rateRange(c), t ? (t.prior.weight === null ? "none" : formatNumber(t.prior.weight, 1)) : "",
-        t ? `${formatNumber(t.leakage.inSample, 3)}/${formatNumber(t.leakage.outOfFold, 3)}` : "");
+        t ? `${formatNumber(t.leakage.inSample, 3)}/${formatNumber(t.leakage.outOfFold, 3)}${forward ? `/${formatNumber(t.leakage.forward, 3)}` : ""}` : "");
     }
     row.push(c.recommendation.encoding + (c.recommendation.overridden ? " (user)" : ""), keyParams(c));
     table.push(row);
@@ -62,6 +68,7 @@ export function renderTable(profile: Profile): string {
   const header = `${formatCount(profile.input.rows)} rows, ${profile.columns.length} columns` +
     (t ? `; target '${t.column}' (${t.kind}, mean ${formatNumber(t.mean, 4)}, ${formatCount(t.missing)} missing)` : "") +
     `; ${profile.settings.folds} folds, seed ${profile.settings.seed}` +
-    (profile.settings.fold?.kind === "grouped" ? ` (grouped by ${profile.settings.fold.keyColumns.join(", ")})` : "");
+    (profile.settings.fold?.kind === "grouped" ? ` (grouped by ${profile.settings.fold.keyColumns.join(", ")})` : "") +
+    (profile.settings.fold?.kind === "time-blocks" ? ` (time-ordered blocks by ${profile.settings.fold.timeColumn})` : "");
   return `${header}\n${table.toString()}\n`;
 }

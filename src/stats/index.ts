@@ -32,6 +32,7 @@ export { invertConvexTail } from "./invertConvexTail.js";
 export { normalQuantile, normalUpperTail, roughNormalQuantile } from "./normalQuantile.js";
 export { studentTQuantile } from "./studentTQuantile.js";
 export { meanInterval } from "./meanInterval.js";
+export { stepMean } from "./stepMean.js";
 export { funnelLimits, funnelHalfWidth } from "./funnelLimits.js";
 export { expectedFalseFlags } from "./expectedFalseFlags.js";
 

@@ -5,6 +5,8 @@
  *    unseen → p;
  *  - training, k-fold: the row's (level, fold) value from the other folds' sums (the fold
  *    column is the scan's); missing → the other folds' prior of the row's fold;
+ *  - training with a time-blocks plan (--time): past-only, the same with the EARLIER blocks'
+ *    sums and prior (encode/targetMaps pastSumsSql); block 0 takes the prior;
  *  - training, leave-one-out: (sum − y + m·p)/(n − 1 + m) from the level's full sums,
  *    n − 1 + m ≤ 0 → p; a row without a target value gets (sum + m·p)/(n + m); missing → p;
  *  - over a hierarchy (backoff groups or a hierarchical prior): encode/hierarchyMaps, as k-fold
@@ -45,7 +47,7 @@ export const targetKfold: EncodingModule<Spec> = {
     if (ctx.leaveOneOut) {
       return { table: fullTable(i), fields: ["n_y", "sum_y"], perFold: false, files: [mainFile(fullTable(i))] };
     }
-    await outOfFoldMap(engine, i, INPUT_LEVELS, name, m, ctx.folds);
+    await outOfFoldMap(engine, i, INPUT_LEVELS, name, m, ctx.folds, ctx.pastOnly);
     return { table: mapTable(i), fields: ["value"], perFold: true, files: [mainFile(fullTable(i)), foldFile(mapTable(i))] };
   },
 
