@@ -12,6 +12,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { withEngine } from "../../src/engine/db.js";
+import { ANSI, CLICKHOUSE, type Dialect } from "../../src/portableSql/dialects.js";
 import { tempDir } from "../helpers/tmp.js";
 import { cli } from "../levels/helpers.js";
 import { expectSameRows, loadExtract, toTsv, type Extract } from "./data.js";
@@ -54,6 +55,17 @@ const CLICKHOUSE_TYPES: Record<string, string> = { INTEGER: "Nullable(Int32)", B
 const POSTGRES_TYPES: Record<string, string> = { INTEGER: "integer", BIGINT: "bigint", DOUBLE: "double precision", VARCHAR: "character varying" };
 const expectedTypes = (names: Record<string, string>) => c.columns.map((n, k) => `${n} ${names[c.types[k]!] ?? `(no name for ${c.types[k]})`}`);
 
+/** Text cells as the engine reads them with `d.parseNumber`: blank and NULL → NULL, spaces trimmed, and a cell that is no number stops the query. */
+function checkParseNumber(d: Dialect, query: (sql: string) => string, table: string): void {
+  query(`INSERT INTO ${table} VALUES (1, '12'), (2, ''), (3, NULL), (4, ' 7 '), (5, '-3'), (6, '2.5e1')`);
+  const read = (type: "BIGINT" | "DOUBLE", where = "k > 0") =>
+    query(`SELECT ${d.parseNumber("v", type)} FROM ${table} WHERE ${where} ORDER BY k`).trim().split("\n").map((l) => (l === "\\N" || l === "" ? null : Number(l)));
+  expect(read("BIGINT", "k < 6")).toEqual([12, null, null, 7, -3]);
+  expect(read("DOUBLE")).toEqual([12, null, null, 7, -3, 25]);
+  query(`INSERT INTO ${table} VALUES (7, 'x7')`);
+  expect(() => read("BIGINT", "k = 7")).toThrow();
+}
+
 const columnsOf = (type: string, idType: string) => later.columns.map((n) => `"${n}" ${n === "row_id" ? idType : type}`).join(", ");
 const parseLines = (out: string) => out.split("\n").filter((l) => l.trim() !== "").map((l) => JSON.parse(l) as Record<string, unknown>);
 
@@ -82,6 +94,9 @@ describe("scoring SQL on two ClickHouse shards equals encode --for scoring", () 
     expect(result.meta.map((m) => `${m.name} ${m.type}`)).toEqual(expectedTypes(CLICKHOUSE_TYPES));
     // the shards hold text: the numeric types come from the query's casts
     expect(a!.query("SELECT toTypeName(lead_days), toTypeName(no_show) FROM later LIMIT 1").trim()).toBe("Nullable(String)\tNullable(String)");
+    // 18.16's CAST(Nullable(String) AS Nullable(Int64)) turns ' 3' into NULL silently, and `if` evaluates both branches: parseNumber's form
+    a!.query("CREATE TABLE cells (k Int64, v Nullable(String)) ENGINE = Log");
+    checkParseNumber(CLICKHOUSE, a!.query, "cells");
   }, 300_000);
 });
 
@@ -108,5 +123,7 @@ describe("scoring SQL on PostgreSQL 15 equals encode --for scoring", () => {
     expect(described("scored")).toEqual(expectedTypes(POSTGRES_TYPES));
     // the table holds text: the numeric types come from the query's casts
     expect(described("later").filter((l) => /^(lead_days|no_show) /.test(l))).toEqual(["lead_days text", "no_show text"]);
+    pg.query("CREATE TABLE cells (k BIGINT, v TEXT)");
+    checkParseNumber(ANSI, pg.query, "cells");
   }, 300_000);
 });
