@@ -125,6 +125,17 @@ describe("scoring SQL in DuckDB equals encode --for scoring", () => {
     });
   });
 
+  it("reads numeric text as encode does: trimmed, blank and NULL as NULL, a non-number an error", async () => {
+    await withEngine({ threads: 1 }, async (e) => {
+      const cells = "(VALUES (1, '12'), (2, ''), (3, NULL), (4, ' 7 '), (5, '-3'), (6, '2.5e1')) AS t(k, v)";
+      const read = async (type: "BIGINT" | "DOUBLE", where: string) =>
+        (await e.rows<{ x: unknown }>(`SELECT ${ANSI.parseNumber("v", type)} AS x FROM ${cells} WHERE ${where} ORDER BY k`, "parsing")).map((r) => (r.x === null ? null : Number(r.x)));
+      expect(await read("BIGINT", "k < 6")).toEqual([12, null, null, 7, -3]);
+      expect(await read("DOUBLE", "k > 0")).toEqual([12, null, null, 7, -3, 25]);
+      await expect(e.rows(`SELECT ${ANSI.parseNumber("'x7'", "BIGINT")} AS x`, "parsing")).rejects.toThrow();
+    });
+  });
+
   it("names its columns as encode does: safe names by default, the raw ones with --raw-names on both", async () => {
     // safe names (encode/safeNames, docs/references.md "encode output"): the one-hot and pooled columns are renamed
     expect(outputColumns.every((n) => /^[A-Za-z_][A-Za-z0-9_]*$/.test(n)), outputColumns.join(", ")).toBe(true);
