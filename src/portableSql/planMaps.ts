@@ -107,8 +107,8 @@ export async function scoringItems(engine: Engine, profile: Profile, levelsPath:
     if (item.kind === "pass") { items.push({ kind: "pass", column: item.column, type: item.type }); continue; }
     if (item.kind !== "encoded") continue;
     const c = item.column;
-    await encoderFor(c).buildMap(engine, c, { mode: "scoring", leaveOneOut: false, folds: profile.settings.folds, targetMean: prior ?? undefined });
     const encoder = encoderFor(c);
+    await encoder.buildMap(engine, c, { mode: "scoring", leaveOneOut: false, folds: profile.settings.folds, targetMean: prior ?? undefined });
     items.push({ kind: "encoded", scoring: { column: c, outputs: encoder.outputNames(c), outputType: encoder.outputType, ...(await lookupsOf(engine, c, prior)) } });
   }
   return items;

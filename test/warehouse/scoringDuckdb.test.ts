@@ -125,6 +125,28 @@ describe("scoring SQL in DuckDB equals encode --for scoring", () => {
     });
   });
 
+  it("a continuous target passes through as DOUBLE, the same values and types as encode", async () => {
+    const scan = await cli(["scan", at("train.csv"), "--target", "fee", "--target-kind", "continuous", "--out", at("plan-fee"), "--as-categorical", "postcode", "--quiet", "--no-progress"]);
+    expect(scan.code, scan.err).toBe(0);
+    const enc = await cli(["encode", at("later.csv"), "--plan", at("plan-fee"), "--out", at("fee.parquet"), "--for", "scoring", "--quiet", "--no-progress"]);
+    expect(enc.code, enc.err).toBe(0);
+    const r = await cli(["sql", "--plan", at("plan-fee"), "--from", "later", "--inline-max", "100000"]);
+    expect(r.code, r.err).toBe(0);
+    await withEngine({ threads: 1 }, async (e) => {
+      const file = `read_parquet(${quoteLiteral(at("fee.parquet"))})`;
+      const reference = await describeQuery(e, `SELECT * FROM ${file}`);
+      expect(reference.types[reference.columns.indexOf("fee")]).toBe("DOUBLE");
+      await loadExtract(e, at("later.csv"), "later");
+      const sql = r.out.trim().replace(/;$/, "");
+      expect(await describeQuery(e, sql)).toEqual(reference);
+      // the plan drops the id (an identifier): rows are matched by position, both in input order
+      const numbered = (q: string) => e.rows<Record<string, unknown>>(`SELECT row_number() OVER () - 1 AS __row, * FROM (${q})`, "numbering rows");
+      const rows = await numbered(`SELECT * FROM ${file}`);
+      expect(rows.filter((x) => x.fee === null).length).toBeGreaterThan(10); // blank fees: NULL in both
+      expectSameRows(await numbered(sql), rows, reference.columns, "__row");
+    });
+  });
+
   it("reads numeric text as encode does: trimmed, blank and NULL as NULL, a non-number an error", async () => {
     await withEngine({ threads: 1 }, async (e) => {
       const cells = "(VALUES (1, '12'), (2, ''), (3, NULL), (4, ' 7 '), (5, '-3'), (6, '2.5e1')) AS t(k, v)";
