@@ -13,16 +13,37 @@
  *    derived table and looks up on the initiator.
  */
 import { quoteIdent, quoteIdentBacktick, quoteLiteral, quoteLiteralBackslash, sqlNumber } from "../engine/sql.js";
+import type { OutputSqlType } from "../encode/types.js";
 
 export type DialectName = "ansi" | "spark" | "clickhouse";
 export const DIALECTS: readonly DialectName[] = ["ansi", "spark", "clickhouse"];
+
+/** A numeric output type (what parseNumber reads text as). */
+export type NumberSqlType = Exclude<OutputSqlType, "VARCHAR">;
+
+/**
+ * encode's output types (encode/types OutputSqlType: INTEGER = 32-bit, BIGINT = 64-bit, DOUBLE =
+ * binary64, VARCHAR = text) as each dialect names them. ClickHouse columns are Nullable: encode's
+ * Parquet columns may hold NULL (a missing pass-through value, a hashed missing level).
+ */
+export const TYPE_NAMES: Readonly<Record<DialectName, Readonly<Record<OutputSqlType, string>>>> = {
+  ansi: { INTEGER: "INTEGER", BIGINT: "BIGINT", DOUBLE: "DOUBLE PRECISION", VARCHAR: "VARCHAR" },
+  spark: { INTEGER: "INT", BIGINT: "BIGINT", DOUBLE: "DOUBLE", VARCHAR: "STRING" },
+  clickhouse: { INTEGER: "Nullable(Int32)", BIGINT: "Nullable(Int64)", DOUBLE: "Nullable(Float64)", VARCHAR: "Nullable(String)" },
+};
 
 export interface Dialect {
   name: DialectName;
   ident(s: string): string;
   literal(s: string): string;
-  /** The text type of CAST (kept for the level query's documented form). */
+  /** The text type of CAST (TYPE_NAMES' VARCHAR). */
   text: string;
+  /** This dialect's name of each output type (TYPE_NAMES). */
+  types: Readonly<Record<OutputSqlType, string>>;
+  /** `expr` (a number, or NULL) as output type `type`: CAST(expr AS <type's name>). */
+  cast(expr: string, type: OutputSqlType): string;
+  /** Text `t` read as a number of type `type`: trimmed; empty or NULL → NULL; not a number → the engine's error. */
+  parseNumber(t: string, type: NumberSqlType): string;
   toText(expr: string): string;
   toDouble(expr: string): string;
   toInteger(expr: string): string;
@@ -58,12 +79,20 @@ function hornerBucket(byteAt: (j: number) => string, width: number, mod: (a: str
 
 const HEX = "'0123456789abcdef'";
 
+const castTo = (names: Readonly<Record<OutputSqlType, string>>) => (e: string, t: OutputSqlType) => `CAST(${e} AS ${names[t]})`;
+const castAnsi = castTo(TYPE_NAMES.ansi);
+const castSpark = castTo(TYPE_NAMES.spark);
+const castClickHouse = castTo(TYPE_NAMES.clickhouse);
+const CLICKHOUSE_READ: Record<NumberSqlType, string> = { INTEGER: "toInt32", BIGINT: "toInt64", DOUBLE: "toFloat64" };
+const clickhouseTrim = (e: string) => `replaceRegexpAll(${e}, '^ +| +$', '')`;
+
 export const ANSI: Dialect = {
-  name: "ansi", ident: quoteIdent, literal: quoteLiteral, text: "VARCHAR",
-  toText: (e) => `CAST(${e} AS VARCHAR)`,
-  toDouble: (e) => `CAST(${e} AS DOUBLE PRECISION)`,
-  toInteger: (e) => `CAST(${e} AS INTEGER)`,
-  double: (v) => `CAST(${doubleText(v)} AS DOUBLE PRECISION)`,
+  name: "ansi", ident: quoteIdent, literal: quoteLiteral, text: TYPE_NAMES.ansi.VARCHAR, types: TYPE_NAMES.ansi, cast: castAnsi,
+  parseNumber: (t, type) => castAnsi(`NULLIF(TRIM(${t}), '')`, type),
+  toText: (e) => castAnsi(e, "VARCHAR"),
+  toDouble: (e) => castAnsi(e, "DOUBLE"),
+  toInteger: (e) => castAnsi(e, "INTEGER"),
+  double: (v) => castAnsi(doubleText(v), "DOUBLE"),
   mod: (a, b) => `MOD(${a}, ${b})`,
   abs: (e) => `ABS(${e})`,
   trim: (e) => `TRIM(${e})`,
@@ -78,11 +107,12 @@ export const ANSI: Dialect = {
 };
 
 export const SPARK: Dialect = {
-  name: "spark", ident: quoteIdentBacktick, literal: quoteLiteralBackslash, text: "STRING",
-  toText: (e) => `CAST(${e} AS STRING)`,
-  toDouble: (e) => `CAST(${e} AS DOUBLE)`,
-  toInteger: (e) => `CAST(${e} AS INTEGER)`,
-  double: (v) => `CAST(${doubleText(v)} AS DOUBLE)`,
+  name: "spark", ident: quoteIdentBacktick, literal: quoteLiteralBackslash, text: TYPE_NAMES.spark.VARCHAR, types: TYPE_NAMES.spark, cast: castSpark,
+  parseNumber: (t, type) => castSpark(`NULLIF(TRIM(${t}), '')`, type),
+  toText: (e) => castSpark(e, "VARCHAR"),
+  toDouble: (e) => castSpark(e, "DOUBLE"),
+  toInteger: (e) => castSpark(e, "INTEGER"),
+  double: (v) => castSpark(doubleText(v), "DOUBLE"),
   mod: (a, b) => `MOD(${a}, ${b})`,
   abs: (e) => `ABS(${e})`,
   trim: (e) => `TRIM(${e})`,
@@ -95,14 +125,18 @@ export const SPARK: Dialect = {
 };
 
 export const CLICKHOUSE: Dialect = {
-  name: "clickhouse", ident: quoteIdent, literal: quoteLiteralBackslash, text: "Nullable(String)",
-  toText: (e) => `CAST(${e} AS Nullable(String))`,
+  name: "clickhouse", ident: quoteIdent, literal: quoteLiteralBackslash, text: TYPE_NAMES.clickhouse.VARCHAR, types: TYPE_NAMES.clickhouse, cast: castClickHouse,
+  parseNumber: (t, type) => {
+    const value = `nullIf(${clickhouseTrim(t)}, '')`;
+    return `if(isNull(${value}), ${castClickHouse("NULL", type)}, ${CLICKHOUSE_READ[type]}(ifNull(${value}, '0')))`;
+  },
+  toText: (e) => castClickHouse(e, "VARCHAR"),
   toDouble: (e) => `toFloat64(${e})`,
   toInteger: (e) => `toInt32(${e})`,
   double: (v) => `toFloat64(${doubleText(v)})`,
   mod: (a, b) => `modulo(${a}, ${b})`,
   abs: (e) => `abs(${e})`,
-  trim: (e) => `replaceRegexpAll(${e}, '^ +| +$', '')`,
+  trim: clickhouseTrim,
   lower: (e) => `lower(${e})`,
   concat: (a, b) => `concat(${a}, ${b})`,
   replaceFirstGroup: (t, p) => `replaceRegexpOne(${t}, ${quoteLiteralBackslash(p)}, '\\\\1')`,

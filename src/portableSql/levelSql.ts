@@ -46,19 +46,27 @@ export function qualifiedName(name: string, d: Pick<Dialect, "ident"> = ANSI): s
   return parts.map(d.ident).join(".");
 }
 
-/** The y expression: DOUBLE 0/1 (binary) or the value (continuous); NULL = no usable target. */
-export function targetExpr(column: string, kind: TargetKind, positive?: string, d: Dialect = ANSI): string {
-  const q = d.ident(column);
-  if (kind === "continuous") return d.toDouble(q);
-  const text = d.trim(d.toText(q));
-  const one = d.toDouble("1");
-  const zero = d.toDouble("0");
-  if (positive !== undefined) {
-    return `CASE WHEN ${text} = ${d.literal(positive.trim())} THEN ${one} WHEN ${text} <> '' THEN ${zero} END`;
-  }
-  const words = (list: readonly string[]) => list.map(d.literal).join(", ");
-  return `CASE WHEN ${d.lower(text)} IN (${words(POSITIVE_WORDS)}) THEN ${one}`
-    + ` WHEN ${d.lower(text)} IN (${words(NEGATIVE_WORDS)}) THEN ${zero} END`;
+/**
+ * The target as a number, from its text `text` (NULL = missing): for a binary target the 0/1 of
+ * engine/target — 1 for the exact (trimmed) positive value, 0 for any other non-blank text; without
+ * one, 1/0 by the words (trimmed, any case), NULL for other text — as `type` (DOUBLE: the level
+ * query's y; INTEGER: the scoring query's passed-through target, as encode writes it); for a
+ * continuous target the trimmed number (blank → NULL). The one spelling of the target both queries use.
+ */
+export function targetFromText(d: Dialect, text: string, kind: TargetKind, positive: string | undefined, type: "DOUBLE" | "INTEGER"): string {
+  if (kind === "continuous") return d.parseNumber(text, "DOUBLE");
+  const t = d.trim(text);
+  const [one, zero] = type === "DOUBLE" ? [d.toDouble("1"), d.toDouble("0")] : ["1", "0"];
+  const binary = positive !== undefined
+    ? `CASE WHEN ${t} = ${d.literal(positive.trim())} THEN ${one} WHEN ${t} <> '' THEN ${zero} END`
+    : `CASE WHEN ${d.lower(t)} IN (${POSITIVE_WORDS.map(d.literal).join(", ")}) THEN ${one}`
+      + ` WHEN ${d.lower(t)} IN (${NEGATIVE_WORDS.map(d.literal).join(", ")}) THEN ${zero} END`;
+  return type === "DOUBLE" ? binary : d.cast(binary, type);
+}
+
+/** The y expression of column `column`: DOUBLE 0/1 (binary) or the value (continuous); NULL = no usable target. */
+export function targetExpr(column: string, kind: TargetKind, positive?: string, d: Dialect = ANSI, missingLike: readonly string[] = []): string {
+  return targetFromText(d, missingLikeSql(d.toText(d.ident(column)), missingLike, d), kind, positive, "DOUBLE");
 }
 
 function foldExpr(o: LevelSqlOptions, d: Dialect): string {
@@ -71,15 +79,15 @@ function foldExpr(o: LevelSqlOptions, d: Dialect): string {
   return d.toInteger(d.mod(d.abs(o.foldExpr), sqlNumber(checkFoldCount(o.folds))));
 }
 
-function yExpr(o: LevelSqlOptions, d: Dialect): string {
+function yExpr(o: LevelSqlOptions, d: Dialect, missingLike: readonly string[]): string {
   if (o.target === undefined) {
     if (o.positive !== undefined || o.targetKind !== undefined) throw bad("--positive and --target-kind need --target");
-    return d.name === "clickhouse" ? "CAST(NULL AS Nullable(Float64))" : d.toDouble("NULL");
+    return d.cast("NULL", "DOUBLE");
   }
   if (o.positive !== undefined && o.targetKind === "continuous") throw bad("--positive applies to binary targets; drop it or use --target-kind binary");
   const kind = o.targetKind ?? (o.positive !== undefined ? "binary" : undefined);
   if (kind === undefined) throw bad("give --target-kind binary or continuous (or --positive VALUE): tailsift sql writes the query without reading the data");
-  return targetExpr(o.target, kind, o.positive, d);
+  return targetExpr(o.target, kind, o.positive, d, missingLike);
 }
 
 /**
@@ -97,9 +105,9 @@ export function levelSql(o: LevelSqlOptions): string {
   const d = dialectOf(o.dialect);
   const table = qualifiedName(o.from, d);
   const fold = foldExpr(o, d);
-  const y = yExpr(o, d);
-  const [cColumn, cLevel, cFold, cRows, cNy, cSumY, cSumY2] = ["column", "level", "fold", "rows", "n_y", "sum_y", "sum_y2"].map(d.ident);
   const missingLike = normaliseMissingLike(o.missingLike);
+  const y = yExpr(o, d, missingLike);
+  const [cColumn, cLevel, cFold, cRows, cNy, cSumY, cSumY2] = ["column", "level", "fold", "rows", "n_y", "sum_y", "sum_y2"].map(d.ident);
   const blocks = o.columns.map((c) =>
     `SELECT ${d.literal(c)} AS ${cColumn}, v AS ${cLevel}, f AS ${cFold}, COUNT(*) AS ${cRows}, COUNT(y) AS ${cNy}, SUM(y) AS ${cSumY}, SUM(y * y) AS ${cSumY2}\n`
     + `FROM (SELECT ${missingLikeSql(d.toText(d.ident(c)), missingLike, d)} AS v, ${fold} AS f, ${y} AS y FROM ${table}) AS tailsift_rows\nGROUP BY v, f`);

@@ -18,8 +18,7 @@ export interface LookupTable { name: string; rows: readonly KeyValue[]; inline: 
 export const valueSql = (d: Dialect, v: number, integer: boolean): string => (integer ? sqlNumber(v) : d.double(v));
 
 /** The NULL of the value's type (a CASE with no branch). */
-const typedNull = (d: Dialect, integer: boolean) =>
-  d.name === "clickhouse" ? (integer ? "CAST(NULL AS Nullable(Int64))" : "CAST(NULL AS Nullable(Float64))") : integer ? "CAST(NULL AS BIGINT)" : d.toDouble("NULL");
+const typedNull = (d: Dialect, integer: boolean) => d.cast("NULL", integer ? "BIGINT" : "DOUBLE");
 
 /** SQL for the value of `key` (a text expression) in `t`, NULL when absent. */
 export function lookupSql(d: Dialect, t: LookupTable, key: string): string {

@@ -20,7 +20,7 @@ import { parentsTable } from "../encode/hierarchicalMaps.js";
 import { inputLevelsFromPlan } from "../encode/levelTables.js";
 import { planColumns } from "../encode/planColumns.js";
 import { fullTable, mapTable } from "../encode/targetMaps.js";
-import type { EncodedColumn } from "../encode/types.js";
+import type { EncodedColumn, OutputSqlType, PassType } from "../encode/types.js";
 import { loadPlanLevels } from "../plan/load.js";
 import type { ParentSpec } from "../profile/hierarchyTypes.js";
 import { TailsiftError } from "../errors.js";
@@ -35,6 +35,8 @@ export interface ScoringColumn {
   column: EncodedColumn;
   /** The column's raw output names (its encoding module's; safe names are made from them: portableSql/outputNames). */
   outputs: string[];
+  /** The type encode writes them as (its encoding module's outputType). */
+  outputType: OutputSqlType;
   /** The level table first, then group tables deepest first, or the parent table. */
   lookups: Lookup[];
   /** What a non-missing level found in no table gets (p, the "other" value, or the width). */
@@ -43,7 +45,8 @@ export interface ScoringColumn {
   missing: number | null;
 }
 
-export type ScoringItem = { kind: "pass"; column: string } | { kind: "encoded"; scoring: ScoringColumn };
+/** A passed-through column carries encode's pass type (encode/planColumns), which encode/passThrough's passSqlType turns into the output type. */
+export type ScoringItem = { kind: "pass"; column: string; type: PassType } | { kind: "encoded"; scoring: ScoringColumn };
 
 async function keyValues(engine: Engine, table: string, key: string, value: string, where = "true"): Promise<KeyValue[]> {
   const rows = await engine.rows<{ k: string; v: number }>(
@@ -51,7 +54,7 @@ async function keyValues(engine: Engine, table: string, key: string, value: stri
   return rows.map((r) => ({ key: r.k, value: r.v }));
 }
 
-async function lookupsOf(engine: Engine, c: EncodedColumn, prior: number | null): Promise<Omit<ScoringColumn, "column" | "outputs">> {
+async function lookupsOf(engine: Engine, c: EncodedColumn, prior: number | null): Promise<Omit<ScoringColumn, "column" | "outputs" | "outputType">> {
   const spec = c.spec;
   const i = c.index;
   if (spec.encoding === "codes" && spec.grouping) {
@@ -101,11 +104,12 @@ export async function scoringItems(engine: Engine, profile: Profile, levelsPath:
   const prior = profile.target?.mean ?? null;
   const items: ScoringItem[] = [];
   for (const item of plan.outputs) {
-    if (item.kind === "pass") { items.push({ kind: "pass", column: item.column }); continue; }
+    if (item.kind === "pass") { items.push({ kind: "pass", column: item.column, type: item.type }); continue; }
     if (item.kind !== "encoded") continue;
     const c = item.column;
-    await encoderFor(c).buildMap(engine, c, { mode: "scoring", leaveOneOut: false, folds: profile.settings.folds, targetMean: prior ?? undefined });
-    items.push({ kind: "encoded", scoring: { column: c, outputs: encoderFor(c).outputNames(c), ...(await lookupsOf(engine, c, prior)) } });
+    const encoder = encoderFor(c);
+    await encoder.buildMap(engine, c, { mode: "scoring", leaveOneOut: false, folds: profile.settings.folds, targetMean: prior ?? undefined });
+    items.push({ kind: "encoded", scoring: { column: c, outputs: encoder.outputNames(c), outputType: encoder.outputType, ...(await lookupsOf(engine, c, prior)) } });
   }
   return items;
 }

@@ -51,7 +51,7 @@ export async function scoringQuery(o: ScoringQueryOptions): Promise<{ sql: strin
   const { levelsPath, profile } = readPlan(o.plan, "sql", true);
   const items = await withEngine({ threads: 1, lockToPaths: [path.dirname(path.resolve(levelsPath))] }, (engine) => scoringItems(engine, profile, levelsPath));
   const missingLike = planMissingLike(profile.settings.missingLike, undefined, false);
-  const result = scoringSql(items, { from: o.from, dialect: dialectOf(o.dialect), inlineMax, missingLike, rawNames: o.rawNames ?? false });
+  const result = scoringSql(items, { from: o.from, dialect: dialectOf(o.dialect), inlineMax, missingLike, rawNames: o.rawNames ?? false, target: profile.target });
   if (result.tables.length > 0) {
     if (o.mappingsOut === undefined) {
       const t = result.tables[0]!;

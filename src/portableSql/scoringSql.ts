@@ -11,12 +11,20 @@
  *    fallback (frequency/codes 0, target p, backoff "other", hashed groups width).
  * A plan scanned with --missing-like (settings.missingLike) reads those values as missing in every
  * column, encoded or passed through, as encode's input view does (engine/missingLike).
+ * Every output column is cast to the type encode writes it as (issue 16), named per dialect
+ * (portableSql/dialects TYPE_NAMES): encoded columns their encoding module's outputType; a
+ * passed-through column encode/passThrough's passSqlType of its pass type — numeric columns read
+ * from their text (trimmed, blank → NULL) as BIGINT or DOUBLE, the target as levelSql's
+ * targetFromText (binary 0/1 INTEGER, continuous DOUBLE), other columns text.
  */
 import { missingLikeSql } from "../engine/missingLike.js";
 import { sqlNumber } from "../engine/sql.js";
+import type { TargetSpec } from "../engine/target.js";
+import { passSqlType } from "../encode/passThrough.js";
+import type { OutputSqlType, PassType } from "../encode/types.js";
 import type { ParentSpec } from "../hierarchy/types.js";
 import type { Dialect } from "./dialects.js";
-import { qualifiedName } from "./levelSql.js";
+import { qualifiedName, targetFromText } from "./levelSql.js";
 import { lookupSql, valueSql, type LookupTable } from "./lookupSql.js";
 import { scoringOutputNames } from "./outputNames.js";
 import type { ScoringColumn, ScoringItem } from "./planMaps.js";
@@ -31,6 +39,8 @@ export interface ScoringSqlOptions {
   missingLike?: readonly string[];
   /** encode's raw output names (`encode --raw-names`) instead of its safe names. */
   rawNames?: boolean;
+  /** The plan's target (profile.target): how the passed-through target becomes its 0/1 or number. */
+  target?: TargetSpec;
 }
 
 export interface MappingTable extends LookupTable { column: string; role: string }
@@ -53,7 +63,7 @@ const slug = (s: string) => s.replace(/[^A-Za-z0-9_]+/g, "_").replace(/^_+|_+$/g
 
 /** The mapping tables of a column, named tailsift_map_<index>_<column>_<role>. */
 export function mappingTables(sc: ScoringColumn, inlineMax: number): MappingTable[] {
-  const integer = sc.column.spec.encoding === "codes" || sc.column.spec.encoding === "hashing";
+  const integer = sc.outputType !== "DOUBLE";
   return sc.lookups.map((l) => ({
     name: `tailsift_map_${sc.column.index}_${slug(sc.column.name)}_${l.role.replace(" ", "")}`,
     column: sc.column.name, role: l.role, rows: l.rows, inline: l.rows.length <= inlineMax, integer,
@@ -85,6 +95,13 @@ function encodedSql(d: Dialect, sc: ScoringColumn, tables: readonly MappingTable
   return [`CASE WHEN ${x} IS NULL THEN ${constant(sc.missing)} ELSE coalesce(${[...chain, constant(sc.fallback)].join(", ")}) END`];
 }
 
+/** A passed-through column as encode writes it: its expression, already of the output type `type`. */
+function passedSql(d: Dialect, column: string, type: PassType, sqlType: OutputSqlType, o: ScoringSqlOptions): string {
+  const text = missingLikeSql(d.toText(`s.${d.ident(column)}`), o.missingLike ?? [], d);
+  if (type === "target" && o.target !== undefined) return targetFromText(d, text, o.target.kind, o.target.positive, sqlType === "INTEGER" ? "INTEGER" : "DOUBLE");
+  return sqlType === "VARCHAR" ? text : d.parseNumber(text, sqlType);
+}
+
 /** The scoring query and the tables it reads that the user must load. */
 export function scoringSql(items: readonly ScoringItem[], o: ScoringSqlOptions): { sql: string; tables: MappingTable[] } {
   const d = o.dialect;
@@ -92,12 +109,15 @@ export function scoringSql(items: readonly ScoringItem[], o: ScoringSqlOptions):
   const raw: string[] = [];
   const all: MappingTable[] = [];
   const missingLike = o.missingLike ?? [];
-  const passed = (c: string) => (missingLike.length === 0 ? `s.${d.ident(c)}` : `CASE WHEN ${d.lower(d.trim(d.toText(`s.${d.ident(c)}`)))} IN (${missingLike.map(d.literal).join(", ")}) THEN NULL ELSE s.${d.ident(c)} END`);
   for (const item of items) {
-    if (item.kind === "pass") { exprs.push(passed(item.column)); raw.push(item.column); continue; }
+    if (item.kind === "pass") {
+      exprs.push(passedSql(d, item.column, item.type, passSqlType(item.type, o.target), o));
+      raw.push(item.column);
+      continue;
+    }
     const tables = mappingTables(item.scoring, o.inlineMax);
     all.push(...tables);
-    exprs.push(...encodedSql(d, item.scoring, tables, missingLike));
+    exprs.push(...encodedSql(d, item.scoring, tables, missingLike).map((e) => d.cast(e, item.scoring.outputType)));
     raw.push(...item.scoring.outputs);
   }
   const names = scoringOutputNames(raw, o.rawNames ?? false);

@@ -24,7 +24,8 @@ const calledFunctions = (sql: string, userText = "") =>
 
 // Functions and keywords of ISO/IEC 9075 (SQL:2016 core: CAST, COUNT, SUM, LOWER, TRIM, ABS, MOD; from memory),
 // which DuckDB, Spark SQL and Trino all implement; "AS (", "IN (" and "FROM (" (a derived table, not a CTE) are syntax, not calls.
-const PORTABLE = new Set(["ABS", "AS", "CAST", "COUNT", "FROM", "IN", "LOWER", "MOD", "SUM", "TRIM"]);
+// NULLIF is in SQL-92 (an abbreviated <case expression>; recalled from memory); the continuous target reads blank as NULL with it
+const PORTABLE = new Set(["ABS", "AS", "CAST", "COUNT", "FROM", "IN", "LOWER", "MOD", "NULLIF", "SUM", "TRIM"]);
 // DuckDB-only spellings that must never appear (common practice: the functions listed in the brief).
 const DUCKDB_ONLY = [/::/, /\bhash\s*\(/i, /\bmd5/i, /\blist\w*\s*\(/i, /\bstruct\w*\s*\(/i, /\bregexp_/i, /\bepoch/i,
   /\bstrftime/i, /\btry_cast/i, /\bqualify\b/i, /\bfilter\s*\(/i, /\bcolumns\s*\(/i, /\bgroup\s+by\s+all\b/i, /\bread_(csv|parquet)/i];
@@ -48,11 +49,11 @@ describe("tailsift sql prints portable SQL", () => {
     });
   }
 
-  it("maps the binary target with the same words as scan, and CASTs continuous targets", () => {
+  it("maps the binary target with the same words as scan, and reads continuous targets trimmed, blank as NULL", () => {
     const words = levelSql({ columns: ["a"], from: "t", target: "y", targetKind: "binary" });
     expect(words).toContain("IN ('1', '1.0', 'true', 't', 'yes', 'y') THEN CAST(1 AS DOUBLE PRECISION)");
     expect(words).toContain("IN ('0', '0.0', 'false', 'f', 'no', 'n') THEN CAST(0 AS DOUBLE PRECISION)");
-    expect(levelSql({ columns: ["a"], from: "t", target: "y", targetKind: "continuous" })).toContain('CAST("y" AS DOUBLE PRECISION) AS y');
+    expect(levelSql({ columns: ["a"], from: "t", target: "y", targetKind: "continuous" })).toContain(`CAST(NULLIF(TRIM(CAST("y" AS VARCHAR)), '') AS DOUBLE PRECISION) AS y`);
     expect(levelSql({ columns: ["a"], from: "t" })).toContain("CAST(NULL AS DOUBLE PRECISION) AS y");
     expect(levelSql({ columns: ["a"], from: "t" })).toContain("CAST(0 AS INTEGER) AS f");
     expect(levelSql({ columns: ["a"], from: "t", foldExpr: "k % 3", folds: 3 })).toContain("CAST(MOD(ABS(k % 3), 3) AS INTEGER) AS f");

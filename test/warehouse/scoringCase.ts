@@ -5,13 +5,23 @@
 import fs from "node:fs";
 import path from "node:path";
 import { expect } from "vitest";
-import { withEngine } from "../../src/engine/db.js";
+import { withEngine, type Engine } from "../../src/engine/db.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
 import type { EncodeSummary } from "../../src/encode/types.js";
 import { cli } from "../levels/helpers.js";
 import { scoringExtract, useEveryEncoding } from "./scoringData.js";
 
-export interface ScoringCase { plan: string; later: string; expected: Record<string, unknown>[]; columns: string[]; summary: EncodeSummary }
+export interface ScoringCase {
+  plan: string; later: string; expected: Record<string, unknown>[]; summary: EncodeSummary;
+  /** encode's output columns in order, and their types (DuckDB's DESCRIBE of the Parquet file). */
+  columns: string[]; types: string[];
+}
+
+/** DuckDB's DESCRIBE of a query: its column names and types, in order. */
+export async function describeQuery(e: Engine, sql: string): Promise<{ columns: string[]; types: string[] }> {
+  const rows = await e.rows<{ column_name: string; column_type: string }>(`DESCRIBE ${sql}`, "describing a query");
+  return { columns: rows.map((r) => r.column_name), types: rows.map((r) => r.column_type) };
+}
 
 export async function scoringCase(dir: string): Promise<ScoringCase> {
   const at = (n: string) => path.join(dir, n);
@@ -26,7 +36,7 @@ export async function scoringCase(dir: string): Promise<ScoringCase> {
   return withEngine({ threads: 1 }, async (e) => ({
     plan: at("plan"), later: at("later.csv"), summary: JSON.parse(enc.out) as EncodeSummary,
     expected: await e.rows<Record<string, unknown>>(`SELECT * FROM read_parquet(${file})`, "reading encode's output"),
-    columns: (await e.rows<{ column_name: string }>(`DESCRIBE SELECT * FROM read_parquet(${file})`, "describe")).map((r) => r.column_name),
+    ...(await describeQuery(e, `SELECT * FROM read_parquet(${file})`)),
   }));
 }
 

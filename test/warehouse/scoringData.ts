@@ -6,6 +6,9 @@
  * codes over backoff groups (microchip batches: the tag text again, so no extra random draw;
  * tableSize below the group count so some groups take code 0).
  * `later` draws the same world plus unseen levels in every column; both have missing values.
+ * Two numeric columns pass through typed (encode/passThrough): `lead_days`, integers (some
+ * negative: booked after the visit), and `fee`, amounts with cents; both taken from the row
+ * number, not from the random stream, so the other columns are drawn as before.
  */
 import fs from "node:fs";
 import path from "node:path";
@@ -22,7 +25,7 @@ const DISTRICTS = ["120", "135", "217", "301", "356", "512", "603", "725", "802"
 /** Rare districts: each too small for a group, together a group under their first digit "8". */
 const RARE_DISTRICTS = ["861", "862", "863", "864"];
 
-export const SCORING_COLUMNS = ["id", "clinic", "species", "channel", "reason", "breed", "vet", "insurance", "postcode", "ward", "tag", "chip", "no_show"];
+export const SCORING_COLUMNS = ["id", "lead_days", "fee", "clinic", "species", "channel", "reason", "breed", "vet", "insurance", "postcode", "ward", "tag", "chip", "no_show"];
 
 export function scoringExtract(rows: number, seed: number, later: boolean): string {
   const r = mulberry32(seed);
@@ -38,8 +41,11 @@ export function scoringExtract(rows: number, seed: number, later: boolean): stri
     const ward = `${pick(["N", "S", "E", "W"])}${unseen && r() < 0.5 ? "Q" : ""}-${Math.floor(r() * 6)}-${Math.floor(r() * 20)}`;
     const tag = `${pick(["AB", "AC", "BD", "ZX"], 1.5)}${String(Math.floor(r() * (later ? 400 : 120))).padStart(3, "0")}`;
     const y = r() < 0.2 + (district < "300" ? 0.15 : 0) + (ward.startsWith("N") ? 0.1 : 0) ? "1" : "0";
+    const leadDays = i % 29 === 3 ? "" : String(((i * 37) % 61) - 5);
+    const cents = ((i * 7919) % 40000) + 1250;
+    const fee = i % 31 === 7 ? "" : `${Math.floor(cents / 100)}.${String(cents % 100).padStart(2, "0")}`;
     const row = [
-      `a${i}`,
+      `a${i}`, leadDays, fee,
       maybe(unseen && r() < 0.3 ? "Newfield Vets 7" : pick(CLINICS, 1.4)),
       maybe(unseen && r() < 0.3 ? "rabbit" : pick(SPECIES)),
       maybe(unseen && r() < 0.3 ? "app" : pick(CHANNELS)),
