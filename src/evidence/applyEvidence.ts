@@ -16,23 +16,24 @@ import type { Evidence, EvidenceCandidate } from "./types.js";
 
 const weightText = (w: PriorWeight) => (w === null ? "∞ (no detectable spread)" : num(w, 1));
 
-function headline(c: EvidenceCandidate, folds: number): string {
+/** `how`: "5-fold out-of-fold", or with --time "past-only over 5 time blocks" (what encode --for training writes). */
+function headline(c: EvidenceCandidate, how: string): string {
   switch (c.candidate) {
     case "pooled-one-hot": {
       const p = c.params;
       return `Pooled one-hot: the ${p.keep.length} levels with at least ${count(p.minRows)} rows keep their own column; the other ${pct(p.pooledRowShare)} of non-missing rows share "other".`;
     }
-    case "target-kfold": return `Target encoding, ${folds}-fold out-of-fold, prior weight m = ${weightText(c.params.weight)}.`;
+    case "target-kfold": return `Target encoding, ${how}, prior weight m = ${weightText(c.params.weight)}.`;
     case "backoff-target-kfold": {
       const p = c.params;
       if (p.parents.length === 0) {
-        return `Pooled target encoding (${folds}-fold out-of-fold): the ${count(p.groups)} levels with at least ${count(p.minRows)} rows (${pct(p.coverage)} of non-missing rows) keep their own mean, every rarer level shares "other"; means smoothed with m = ${weightText(p.weight)}. Which levels are pooled is decided from the row counts of all folds (not from the target).`;
+        return `Pooled target encoding (${how}): the ${count(p.groups)} levels with at least ${count(p.minRows)} rows (${pct(p.coverage)} of non-missing rows) keep their own mean, every rarer level shares "other"; means smoothed with m = ${weightText(p.weight)}. Which levels are pooled is decided from the row counts of all folds (not from the target).`;
       }
-      return `Backoff grouping, then target encoding (${folds}-fold out-of-fold): a level with at least ${count(p.minRows)} rows keeps its own group, a rarer one backs off to its longest parent with that many rows (${p.parents.map(describeParent).join(", then ")}), the rest share "other" — ${count(p.groups)} groups covering ${pct(p.coverage)} of non-missing rows, group means smoothed with m = ${weightText(p.weight)}.`;
+      return `Backoff grouping, then target encoding (${how}): a level with at least ${count(p.minRows)} rows keeps its own group, a rarer one backs off to its longest parent with that many rows (${p.parents.map(describeParent).join(", then ")}), the rest share "other" — ${count(p.groups)} groups covering ${pct(p.coverage)} of non-missing rows, group means smoothed with m = ${weightText(p.weight)}.`;
     }
     case "hierarchical-target-kfold": {
       const p = c.params;
-      return `Target encoding with a hierarchical prior (${folds}-fold out-of-fold): each level's mean shrinks toward its parent's smoothed mean (parent = ${describeParent(p.parent)}, ${count(p.parentGroups ?? Number.NaN)} groups) with weight m = ${weightText(p.weight)}, and each parent's toward the overall mean with weight ${weightText(p.parentWeight)}.`;
+      return `Target encoding with a hierarchical prior (${how}): each level's mean shrinks toward its parent's smoothed mean (parent = ${describeParent(p.parent)}, ${count(p.parentGroups ?? Number.NaN)} groups) with weight m = ${weightText(p.weight)}, and each parent's toward the overall mean with weight ${weightText(p.parentWeight)}.`;
     }
     case "overall-mean": return "The overall mean.";
   }
@@ -87,7 +88,7 @@ function decide(column: ColumnProfile, evidence: Evidence, policy: AdvicePolicy)
   const encoding = chosen.candidate === "pooled-one-hot" ? "pooled-one-hot" : "target-kfold";
   const sameAsRules = encoding === was.encoding && (chosen.candidate === "pooled-one-hot" || chosen.candidate === "target-kfold");
   if (sameAsRules) return { ...was, reasons: [...was.reasons, ...told] };
-  const rec = asRecommendation(chosen, [headline(chosen, evidence.folds), ...told, `The rules alone advised ${was.encoding}: ${was.reasons[0] ?? ""}`]);
+  const rec = asRecommendation(chosen, [headline(chosen, evidence.validation === "forward" ? `past-only over ${evidence.folds} time blocks` : `${evidence.folds}-fold out-of-fold`), ...told, `The rules alone advised ${was.encoding}: ${was.reasons[0] ?? ""}`]);
   const cautions = cautionsFor(column, rec);
   return cautions.length > 0 ? { ...rec, cautions } : rec;
 }

@@ -42,7 +42,15 @@ describe("forward figures in the record", () => {
     expect(table).toContain("unseen GT/fwd");
     expect(table).toContain("AUC in/oof/fwd");
     expect(table).toContain(`${formatShare(ref.unseenRate, 2)}/${formatShare(ref.forwardUnseen!.mean, 2)}`);
+    // the reasons name what encode --for training writes for a --time plan: past-only encodings
+    const targetReasons = p.columns.filter((c) => c.recommendation.encoding === "target-kfold").map((c) => c.recommendation.reasons[0] ?? "");
+    expect(targetReasons.length).toBeGreaterThan(0);
+    for (const r of targetReasons) {
+      expect(r).toMatch(/past-only over 4 time blocks/);
+      expect(r).not.toMatch(/-fold out-of-fold/);
+    }
     const plain = await scan([file], { target: "no_show", folds: 4 });
+    expect(plain.columns.filter((c) => c.recommendation.encoding === "target-kfold").every((c) => /4-fold out-of-fold/.test(c.recommendation.reasons[0] ?? ""))).toBe(true);
     const plainMd = renderDecisionRecord(plain);
     expect(plainMd).toContain("**Evidence (out-of-fold)**");
     expect(plainMd).not.toContain("forward");

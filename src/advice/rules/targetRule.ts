@@ -46,7 +46,7 @@ export function targetRule(column: ColumnProfile, policy: AdvicePolicy, target: 
     encoding: "target-kfold",
     params: { weight: prior.weight, folds: policy.folds, seed: policy.seed, priorMean: prior.mean, fallback: "prior mean" },
     reasons: [
-      `Target encoding, ${policy.folds}-fold out-of-fold: ${count(column.distinct)} levels are too many for one-hot, and the levels differ by more than noise (fitted prior weight m = ${num(prior.weight, 1)} by ${prior.method}).`,
+      `Target encoding, ${policy.forward ? `past-only over ${policy.folds} time blocks` : `${policy.folds}-fold out-of-fold`}: ${count(column.distinct)} levels are too many for one-hot, and the levels differ by more than noise (fitted prior weight m = ${num(prior.weight, 1)} by ${prior.method}).`,
       `The ${signal.text}; in-sample the same encoding scores ${num(gap.inSample)}, so fitting on in-sample means would overstate it.`,
       `${count(column.target.flaggedLevels)} levels have an interval that excludes the overall mean, against ${num(column.target.expectedFalseFlags, 1)} expected by chance.`,
     ],
