@@ -64,7 +64,8 @@ async function compare(
   // numeric identifiers (numericValues set) have no levels in the plan's level table
   const compared = profile.columns.filter((c) => COMPARED_ROLES.has(c.role) && c.numericValues === undefined);
   const present = compared.filter((c) => source.columns.includes(c.name));
-  const planTarget = profile.target;
+  // a multi-class target is compared by its class distribution (drift/classDrift), not as a y
+  const planTarget = profile.target?.kind === "multiclass" ? undefined : profile.target;
   const targetSpec: TargetSpec | undefined = planTarget && source.columns.includes(planTarget.column)
     ? { column: planTarget.column, kind: planTarget.kind, ...(planTarget.positive !== undefined ? { positive: planTarget.positive } : {}) }
     : undefined;
@@ -107,7 +108,7 @@ async function compare(
     plan: {
       path: profilePath, createdAt: profile.createdAt, paths: profile.input.paths, rows: profile.input.rows,
       fingerprint: profile.input.fingerprint, top,
-      ...(planTarget ? { target: { column: planTarget.column, kind: planTarget.kind, mean: planTarget.mean } } : {}),
+      ...(profile.target ? { target: { column: profile.target.column, kind: profile.target.kind, mean: profile.target.mean } } : {}),
     },
     input: {
       paths: source.files, rows: totals.rows, bytes: source.bytes, fingerprint: source.fingerprint, format: source.format,

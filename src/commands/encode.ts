@@ -103,7 +103,10 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
   const names = plan.encoded.map((c) => c.name);
   if (pastOnly) await checkTimeBlockRows(engine, source.view, folding);
   const folds = training ? folding.k : profile.settings.folds;
-  const target = profile.target ? { column: profile.target.column, kind: profile.target.kind, ...(profile.target.positive !== undefined ? { positive: profile.target.positive } : {}) } : undefined;
+  const pt = profile.target;
+  const target = pt === undefined ? undefined
+    : pt.kind === "multiclass" ? { column: pt.column, kind: pt.kind, classes: pt.classes.map((c) => c.value) }
+    : { column: pt.column, kind: pt.kind, ...(pt.positive !== undefined ? { positive: pt.positive } : {}) };
   const targetEncoded = plan.encoded.some((c) => c.spec.encoding === "target-kfold");
   if (targetEncoded && !target) throw new TailsiftError("bad_plan", "the plan target-encodes a column but has no target; rescan with --target");
   const needsTarget = training && targetEncoded;

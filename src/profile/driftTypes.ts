@@ -3,7 +3,7 @@
  * fractions in [0, 1]; a figure that cannot be computed (no rows, column missing) is null, never
  * NaN. Keys may be added, none removed.
  */
-import type { ColumnRole, Encoding, TargetKind } from "./types.js";
+import type { ColumnRole, Encoding, ScanTargetKind, TargetKind } from "./types.js";
 
 export type DriftStatus = "ok" | "watch" | "act";
 
@@ -94,7 +94,7 @@ export interface DriftReport {
   createdAt: string;
   plan: {
     path: string; createdAt: string; paths: string[]; rows: number; fingerprint: string; top: number;
-    target?: { column: string; kind: TargetKind; mean: number };
+    target?: { column: string; kind: ScanTargetKind; mean: number };
   };
   input: {
     paths: string[]; rows: number; bytes: number; fingerprint: string; format: string;

@@ -143,7 +143,9 @@ export function headerFigures(profile: Profile): Figure[] {
   if (input.format) figures.push({ label: "format", value: input.format });
   const t = profile.target;
   figures.push({ label: "target", value: t === undefined ? "none"
-    : `${t.column} (${t.kind}${t.positive === undefined ? "" : `, positive = "${t.positive}"`}); mean ${formatCompact(t.mean)}`
+    : t.kind === "multiclass"
+      ? `${t.column} (multiclass, ${t.classes.length} classes: ${t.classes.map((c) => `${c.value} ${formatShare(c.share)}`).join(", ")}); ${formatCount(t.rows)} rows, ${formatCount(t.missing)} missing`
+      : `${t.column} (${t.kind}${t.positive === undefined ? "" : `, positive = "${t.positive}"`}); mean ${formatCompact(t.mean)}`
       + `${t.sd === undefined ? "" : `, sd ${formatCompact(t.sd)}`}; ${formatCount(t.rows)} rows, ${formatCount(t.missing)} missing` });
   return figures;
 }

@@ -103,7 +103,7 @@ function columnSection(column: ColumnProfile, index: number, profile: Profile): 
   }
   if (column.topLevels.length > 0) {
     const more = column.topLevels.length > TOP_LEVELS_SHOWN ? ` (first ${TOP_LEVELS_SHOWN} of ${column.topLevels.length})` : "";
-    out.push(`**Top levels**${more}`, "", ...topLevelsTable(column.topLevels, profile.target), "");
+    out.push(`**Top levels**${more}`, "", ...topLevelsTable(column.topLevels, profile.target?.kind === "multiclass" ? undefined : profile.target), "");
   }
   out.push(...evidenceSection(column), ...structureSection(column));
   out.push("**Reasons**", "", ...(rec.reasons.length > 0 ? bullets(rec.reasons) : ["- none given"]), "");
