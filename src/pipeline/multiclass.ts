@@ -17,6 +17,7 @@ import { classSumColumn, LEVEL_TABLE } from "../engine/passPlan.js";
 import { checkTarget } from "../profile/checkTarget.js";
 import type { ClassFigures, MulticlassTarget, Profile } from "../profile/types.js";
 import { adviseFromLevelTable, type AdviceInput } from "./advise.js";
+import { multiclassEvidence, multiclassRecommendation } from "./multiclassAdvice.js";
 
 /** Where the level table with every class's sums is kept while one class is advised. */
 export const MULTICLASS_LEVELS = "tailsift_levels_multiclass";
@@ -76,9 +77,19 @@ export async function adviseMulticlass(engine: Engine, ctx: MulticlassInput): Pr
   }
 }
 
-/** The multi-class advice, then the level table with every class's sums written where asked. */
+/**
+ * The multi-class advice: the per-class runs, then the multi-class evidence and decision
+ * (pipeline/multiclassAdvice), then the level table with every class's sums written where asked.
+ */
 export async function adviseMulticlassAndWrite(engine: Engine, ctx: MulticlassInput): Promise<Profile> {
   const profile = await adviseMulticlass(engine, ctx);
+  const evidence = await multiclassEvidence(engine, ctx.levelColumns, profile.columns, ctx.target, ctx.policy);
+  for (const column of profile.columns) {
+    const e = evidence.get(column.name);
+    if (!e) continue;
+    column.multiclassEvidence = e;
+    column.recommendation = multiclassRecommendation(column, e, ctx.policy);
+  }
   if (ctx.levelTableOut) await writeLevelTable(engine, ctx.levelColumns, ctx.levelTableOut, ctx.target.classes.length);
   return profile;
 }

@@ -125,6 +125,16 @@ export interface ClassFigures {
   advised: Encoding;
 }
 
+/** A multi-class target: the column scored by the out-of-fold multi-class log loss (engine/multiclassLoss). */
+export interface MulticlassEvidence {
+  metric: "multiclass-log-loss";
+  folds: number;
+  rows: number;
+  candidates: { candidate: "class-shares" | "target-kfold"; loss: number; se: number | null; foldLosses: number[] }[];
+  chosen: "class-shares" | "target-kfold";
+  reason: string;
+}
+
 export interface ColumnProfile {
   name: string;
   role: ColumnRole;
@@ -147,6 +157,8 @@ export interface ColumnProfile {
   target?: ColumnTargetFigures;
   /** Multi-class targets: the figures of each class against the rest (the column has no `target`). */
   classes?: ClassFigures[];
+  /** Multi-class targets: class shares against one-vs-rest target encoding, multi-class log loss out-of-fold. */
+  multiclassEvidence?: MulticlassEvidence;
   hashing?: {
     width: number;
     collisionRowShare: number;
