@@ -13,7 +13,8 @@ import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { singleFold } from "../engine/folds.js";
 import { describeFiles, openSource, type SourceOptions } from "../engine/source.js";
 import { planMissingLike } from "../engine/missingLike.js";
-import type { TargetSpec } from "../engine/target.js";
+import { classesSql, type TargetSpec } from "../engine/target.js";
+import { classDrift } from "../drift/classDrift.js";
 import { TailsiftError } from "../errors.js";
 import type { ColumnProfile, Profile } from "../profile/types.js";
 import { missingColumnDrift, presentColumnDrift, type TargetContext } from "../drift/columnDrift.js";
@@ -101,6 +102,9 @@ async function compare(
       { n: totals.targetRows, sum: totals.sumY, sum2: totals.sumY2, bad: totals.badTargets })
     : undefined;
 
+  const mc = profile.target?.kind === "multiclass" && source.columns.includes(profile.target.column) ? profile.target : undefined;
+  // every value of the target, counted (the cap only bounds what comes back: far more than any plan's classes)
+  const classes = mc ? classDrift(mc, await engine.rows<{ v: string; n: number }>(classesSql(source.view, mc.column, 100_000), `counting the classes of '${mc.column}'`), thresholds) : undefined;
   const known = new Set(profile.columns.map((c) => c.name));
   return {
     tool: { name: "tailsift", version: toolVersion() },
@@ -117,7 +121,8 @@ async function compare(
     },
     thresholds,
     ...(target ? { target } : {}),
+    ...(classes ? { classes } : {}),
     columns,
-    status: worst([...columns.map((c) => c.status), target?.status ?? "ok"]),
+    status: worst([...columns.map((c) => c.status), target?.status ?? "ok", classes?.status ?? "ok"]),
   };
 }

@@ -89,6 +89,19 @@ export interface DriftTarget extends RateShift {
   reasons: string[];
 }
 
+/** A multi-class target's class mix against the plan's (drift/classDrift). */
+export interface DriftClasses {
+  column: string;
+  /** New-extract rows with a target value. */
+  rows: number;
+  psi: number | null;
+  classes: { value: string; planShare: number; rows: number; share: number }[];
+  /** Classes the plan does not know, largest first. */
+  unknown: { value: string; rows: number }[];
+  status: DriftStatus;
+  reasons: string[];
+}
+
 export interface DriftReport {
   tool: { name: "tailsift"; version: string };
   createdAt: string;
@@ -106,6 +119,8 @@ export interface DriftReport {
   thresholds: DriftThresholds;
   /** The overall target shift; absent when the plan has no target or the extract lacks it. */
   target?: DriftTarget;
+  /** A multi-class target's class mix; absent otherwise or when the extract lacks it. */
+  classes?: DriftClasses;
   columns: ColumnDrift[];
   status: DriftStatus;
 }
