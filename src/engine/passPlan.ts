@@ -51,7 +51,7 @@ export function rowFieldsSql(plan: PassPlan): string[] {
 export const classSumColumn = (k: number): string => `sum_c${k}`;
 
 /** The classes of a multi-class target in the plan (none otherwise). */
-export const planClasses = (plan: PassPlan): readonly string[] =>
+export const planClasses = (plan: Pick<PassPlan, "target">): readonly string[] =>
   plan.target?.kind === "multiclass" ? plan.target.classes ?? [] : [];
 
 /**

@@ -17,7 +17,7 @@ import { classSumColumn, LEVEL_TABLE } from "../engine/passPlan.js";
 import { checkTarget } from "../profile/checkTarget.js";
 import type { ClassFigures, MulticlassTarget, Profile } from "../profile/types.js";
 import { adviseFromLevelTable, type AdviceInput } from "./advise.js";
-import { multiclassEvidence, multiclassRecommendation } from "./multiclassAdvice.js";
+import { decidedTargetEncoding, multiclassEvidence, multiclassRecommendation } from "./multiclassAdvice.js";
 
 /** Where the level table with every class's sums is kept while one class is advised. */
 export const MULTICLASS_LEVELS = "tailsift_levels_multiclass";
@@ -47,7 +47,9 @@ export async function adviseMulticlass(engine: Engine, ctx: MulticlassInput): Pr
   await engine.run(`ALTER TABLE ${LEVEL_TABLE} RENAME TO ${MULTICLASS_LEVELS}`, "keeping the class sums");
   try {
     await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TABLE} AS SELECT * FROM ${MULTICLASS_LEVELS}`, "measuring the columns");
-    const base = await adviseFromLevelTable(engine, { ...ctx, target: undefined, levelTableOut: undefined });
+    // --decide COL=target-kfold is applied after the evidence (pipeline/multiclassAdvice): the run without a target cannot
+    const decide = Object.fromEntries(Object.entries(ctx.decide ?? {}).filter(([, e]) => e !== "target-kfold"));
+    const base = await adviseFromLevelTable(engine, { ...ctx, decide, target: undefined, levelTableOut: undefined });
     const perClass = new Map<string, ClassFigures[]>();
     for (const [k, cls] of target.classes.entries()) {
       await useClassTable(engine, k);
@@ -89,6 +91,10 @@ export async function adviseMulticlassAndWrite(engine: Engine, ctx: MulticlassIn
     if (!e) continue;
     column.multiclassEvidence = e;
     column.recommendation = multiclassRecommendation(column, e, ctx.policy);
+  }
+  for (const [name, encoding] of Object.entries(ctx.decide ?? {})) {
+    const column = profile.columns.find((c) => c.name === name);
+    if (encoding === "target-kfold" && column) column.recommendation = decidedTargetEncoding(column, ctx.policy);
   }
   if (ctx.levelTableOut) await writeLevelTable(engine, ctx.levelColumns, ctx.levelTableOut, ctx.target.classes.length);
   return profile;

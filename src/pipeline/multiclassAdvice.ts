@@ -10,6 +10,7 @@
  * a drop of an identifier or constant, and --decide overrides stand, as on the binary path).
  */
 import type { AdvicePolicy } from "../advice/policy.js";
+import { TailsiftError } from "../errors.js";
 import type { Engine } from "../engine/db.js";
 import { multiclassFoldLosses } from "../engine/multiclassLoss.js";
 import { foldLoss } from "../evidence/foldLoss.js";
@@ -57,6 +58,26 @@ function decide(shares: NonNullable<ReturnType<typeof foldLoss>>, encoded: NonNu
   };
 }
 
+/** The per-class target encoding params of a column with per-class figures. */
+function classParams(column: ColumnProfile, policy: AdvicePolicy) {
+  return {
+    weight: null, folds: policy.folds, seed: policy.seed, priorMean: null, fallback: "prior mean" as const,
+    classes: (column.classes ?? []).map((k) => ({ value: k.value, weight: k.target.prior.weight, priorMean: k.target.prior.mean })),
+  };
+}
+
+/** --decide COL=target-kfold with a multi-class target: the per-class encoding, recording what was advised. */
+export function decidedTargetEncoding(column: ColumnProfile, policy: AdvicePolicy): Recommendation {
+  const advised = column.recommendation;
+  if (!column.classes) throw new TailsiftError("bad_option", `--decide ${column.name}=target-kfold: the column has no per-class figures (role ${column.role})`);
+  return {
+    encoding: "target-kfold", params: classParams(column, policy),
+    reasons: [`Chosen by the user with --decide ${column.name}=target-kfold (one column per class of the multi-class target); the rules advised ${advised.encoding}:`, ...advised.reasons.map((r) => `(advised) ${r}`)],
+    ...(advised.cautions ? { cautions: advised.cautions } : {}),
+    overridden: { from: advised.encoding, by: "--decide" },
+  };
+}
+
 /** The column's decision: the one-vs-rest target encoding when the evidence chose it and the advice may be revised. */
 export function multiclassRecommendation(column: ColumnProfile, evidence: MulticlassEvidence | undefined, policy: AdvicePolicy): Recommendation {
   const rec = column.recommendation;
@@ -64,10 +85,7 @@ export function multiclassRecommendation(column: ColumnProfile, evidence: Multic
   if (evidence.chosen === "target-kfold" && MULTICLASS_REVISABLE.includes(rec.encoding)) {
     return {
       encoding: "target-kfold",
-      params: {
-        weight: null, folds: policy.folds, seed: policy.seed, priorMean: null, fallback: "prior mean",
-        classes: column.classes.map((k) => ({ value: k.value, weight: k.target.prior.weight, priorMean: k.target.prior.mean })),
-      },
+      params: classParams(column, policy),
       reasons: [`Multi-class target, one class against the rest: ${evidence.reason} Each class gets its own out-of-fold m-estimate (weights ${column.classes.map((k) => `${k.value} ${k.target.prior.weight === null ? "∞" : fmt(k.target.prior.weight, 3)}`).join(", ")}).`],
       ...(rec.cautions ? { cautions: rec.cautions } : {}),
     };

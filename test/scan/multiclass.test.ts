@@ -122,4 +122,14 @@ describe("choosing the kind", () => {
   it("--positive with --target-kind multiclass is refused", async () => {
     await expectCliError(["scan", file, "--target", "visit_outcome", "--target-kind", "multiclass", "--positive", "attended"], "bad_option", /--positive applies to binary targets/);
   });
+  it("--decide COL=target-kfold gives the per-class encoding with each class's weight; other overrides as on the binary path", async () => {
+    const p = await scan([file], { target: "visit_outcome", decide: { species: "target-kfold", clinic: "one-hot" } });
+    const species = p.columns.find((c) => c.name === "species")!;
+    expect(species.recommendation.encoding).toBe("target-kfold");
+    expect(species.recommendation.overridden).toEqual({ from: "one-hot", by: "--decide" });
+    if (species.recommendation.encoding === "target-kfold") {
+      expect(species.recommendation.params.classes?.map((c) => [c.value, c.weight])).toEqual(species.classes!.map((k) => [k.value, k.target.prior.weight]));
+    }
+    expect(p.columns.find((c) => c.name === "clinic")!.recommendation).toMatchObject({ encoding: "one-hot", overridden: { by: "--decide" } });
+  });
 });
