@@ -6,6 +6,7 @@
 import { foldKindText } from "../engine/folds.js";
 import type { ColumnProfile, Profile, Recommendation } from "../profile/types.js";
 import { formatCompact, formatCount, formatNumber, formatShare } from "./format.js";
+import { classParamsText } from "./classFigures.js";
 import { numericValuesText, passThroughFigures, placeholderFigure, roleNotes } from "./passThroughFigures.js";
 
 /** A labelled figure: label and value are plain text (not escaped). */
@@ -47,6 +48,8 @@ export function paramValueText(value: unknown): string {
 
 /** Parameters as `name=value` pairs in the order the recommendation lists them. */
 export function paramsText(params: object): string {
+  const classes = classParamsText(params);
+  if (classes !== null) return classes;
   const entries = Object.entries(params);
   return entries.length === 0 ? "—" : entries.map(([k, v]) => `${k}=${paramValueText(v)}`).join(", ");
 }

@@ -4,6 +4,7 @@
  * Content-Security-Policy that forbids every network load. Every string from the data is
  * HTML-escaped; chart text is escaped by vega's SVG renderer. Same profile → same bytes.
  */
+import { classTables } from "./classFigures.js";
 import type { ColumnProfile, LevelFigure, Profile, ProfileTarget } from "../profile/types.js";
 import { chartSvg, collisionChartSpec, coverageChartSpec, evidenceChartSpec, funnelChartSpec, type ChartSpec } from "./charts.js";
 import { CONTROL_CHARACTERS, controlEscape, escapeHtml } from "./escape.js";
@@ -145,6 +146,8 @@ async function columnSection(column: ColumnProfile, index: number, profile: Prof
     topLevelsTable(column.topLevels, profile.target?.kind === "multiclass" ? undefined : profile.target),
     `</div>`,
     await columnCharts(column, profile),
+    ...classTables(column, 10).map((t) => `<table class="evidence"><caption>${h(t.title)}</caption>\n${headRow(t.header)}\n<tbody>\n`
+      + `${t.rows.map((r) => `<tr>${r.map((c, j) => `<td${j > 0 ? ' class="num"' : ""}>${h(c)}</td>`).join("")}</tr>`).join("\n")}\n</tbody></table>${t.note ? `\n<p class="note">${h(t.note)}</p>` : ""}`),
     await evidenceSection(column),
     structureSection(column),
   ];
