@@ -17,6 +17,7 @@ import { addDriftCommand } from "./commands/driftCli.js";
 import { addEncodeCommand } from "./commands/encodeCli.js";
 import type { Engine } from "./engine/db.js";
 import { DEFAULT_FOLD_COUNT, DEFAULT_FOLD_SEED } from "./engine/folds.js";
+import { DEFAULT_MAX_CLASSES } from "./engine/target.js";
 import type { CliIO } from "./commands/io.js";
 import { isTailsiftError } from "./errors.js";
 import { refuseBlankOptions } from "./commands/optionChecks.js";
@@ -36,9 +37,10 @@ export function buildProgram(io: CliIO): Command {
   const scan = program.command("scan")
     .description("profile every categorical column, recommend an encoding, print; --out DIR writes profile.json, decisions.md, report.html and levels.parquet")
     .argument("<inputs...>", "files (.csv, .tsv, .csv.gz, .parquet, .jsonl), globs or folders of Parquet")
-    .option("--target <column>", "target column (binary or continuous)")
+    .option("--target <column>", "target column (binary, continuous or multi-class)")
     .option("--positive <value>", "the target value that counts as positive (binary)")
-    .addOption(new Option("--target-kind <kind>", "force the target kind").choices(["binary", "continuous"]))
+    .addOption(new Option("--target-kind <kind>", "force the target kind (multiclass: automatic for 3 to --max-classes text values; each class measured against the rest)").choices(["binary", "continuous", "multiclass"]))
+    .option("--max-classes <n>", `most classes of a multi-class target (default ${DEFAULT_MAX_CLASSES})`, integer("--max-classes", 2))
     .option("--columns <names>", "profile only these columns (comma-separated, repeatable)", list)
     .option("--exclude <names>", "leave these columns out (comma-separated, repeatable)", list)
     .option("--as-categorical <names>", "profile these numeric-looking columns as levels", list)

@@ -13,7 +13,8 @@ import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { singleFold } from "../engine/folds.js";
 import { describeFiles, openSource, type SourceOptions } from "../engine/source.js";
 import { planMissingLike } from "../engine/missingLike.js";
-import type { TargetSpec } from "../engine/target.js";
+import { classesSql, type TargetSpec } from "../engine/target.js";
+import { classDrift } from "../drift/classDrift.js";
 import { TailsiftError } from "../errors.js";
 import type { ColumnProfile, Profile } from "../profile/types.js";
 import { missingColumnDrift, presentColumnDrift, type TargetContext } from "../drift/columnDrift.js";
@@ -64,7 +65,8 @@ async function compare(
   // numeric identifiers (numericValues set) have no levels in the plan's level table
   const compared = profile.columns.filter((c) => COMPARED_ROLES.has(c.role) && c.numericValues === undefined);
   const present = compared.filter((c) => source.columns.includes(c.name));
-  const planTarget = profile.target;
+  // a multi-class target is compared by its class distribution (drift/classDrift), not as a y
+  const planTarget = profile.target?.kind === "multiclass" ? undefined : profile.target;
   const targetSpec: TargetSpec | undefined = planTarget && source.columns.includes(planTarget.column)
     ? { column: planTarget.column, kind: planTarget.kind, ...(planTarget.positive !== undefined ? { positive: planTarget.positive } : {}) }
     : undefined;
@@ -100,6 +102,9 @@ async function compare(
       { n: totals.targetRows, sum: totals.sumY, sum2: totals.sumY2, bad: totals.badTargets })
     : undefined;
 
+  const mc = profile.target?.kind === "multiclass" && source.columns.includes(profile.target.column) ? profile.target : undefined;
+  // every value of the target, counted (the cap only bounds what comes back: far more than any plan's classes)
+  const classes = mc ? classDrift(mc, await engine.rows<{ v: string; n: number }>(classesSql(source.view, mc.column, 100_000), `counting the classes of '${mc.column}'`), thresholds) : undefined;
   const known = new Set(profile.columns.map((c) => c.name));
   return {
     tool: { name: "tailsift", version: toolVersion() },
@@ -107,7 +112,7 @@ async function compare(
     plan: {
       path: profilePath, createdAt: profile.createdAt, paths: profile.input.paths, rows: profile.input.rows,
       fingerprint: profile.input.fingerprint, top,
-      ...(planTarget ? { target: { column: planTarget.column, kind: planTarget.kind, mean: planTarget.mean } } : {}),
+      ...(profile.target ? { target: { column: profile.target.column, kind: profile.target.kind, mean: profile.target.mean } } : {}),
     },
     input: {
       paths: source.files, rows: totals.rows, bytes: source.bytes, fingerprint: source.fingerprint, format: source.format,
@@ -116,7 +121,8 @@ async function compare(
     },
     thresholds,
     ...(target ? { target } : {}),
+    ...(classes ? { classes } : {}),
     columns,
-    status: worst([...columns.map((c) => c.status), target?.status ?? "ok"]),
+    status: worst([...columns.map((c) => c.status), target?.status ?? "ok", classes?.status ?? "ok"]),
   };
 }

@@ -47,6 +47,8 @@ export interface EncodeOptions extends EngineOptions, SourceOptions {
   keepOriginal?: boolean;
   /** Training only: leave-one-out target encoding instead of out-of-fold. */
   leaveOneOut?: boolean;
+  /** A multi-class target's encoding: write all K class columns (default K − 1, the largest class dropped). */
+  allClasses?: boolean;
   /** Training only: count level sums from the input even when it is the scanned extract. */
   recount?: boolean;
   /** Keep today's raw output names (`clinic=Yarrowby Vets 24`) instead of safe ones (encode/safeNames). */
@@ -98,12 +100,19 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
   if (pastOnly && o.leaveOneOut) throw new TailsiftError("bad_option", "--leave-one-out does not apply to a plan scanned with --time: its training encodings are past-only (each time block encoded from the earlier blocks); drop --leave-one-out");
   const plan = planColumns(profile, source.columns, {
     mode: o.mode, keep: o.keep ?? [], keepOriginal: o.keepOriginal ?? false, foldColumn: o.foldColumn, foldKeys: training ? folding.keyColumns : [],
+    allClasses: o.allClasses ?? false,
   });
+  if (o.leaveOneOut && plan.encoded.some((c) => c.spec.encoding === "target-kfold" && c.spec.classes)) {
+    throw new TailsiftError("bad_option", "--leave-one-out has no multi-class form: the plan's target has several classes; drop --leave-one-out (training encodings are out-of-fold)");
+  }
   if (plan.names.length === 0) throw new TailsiftError("nothing_to_write", "the plan drops every column of the input; nothing to write (use --keep to pass columns through)");
   const names = plan.encoded.map((c) => c.name);
   if (pastOnly) await checkTimeBlockRows(engine, source.view, folding);
   const folds = training ? folding.k : profile.settings.folds;
-  const target = profile.target ? { column: profile.target.column, kind: profile.target.kind, ...(profile.target.positive !== undefined ? { positive: profile.target.positive } : {}) } : undefined;
+  const pt = profile.target;
+  const target = pt === undefined ? undefined
+    : pt.kind === "multiclass" ? { column: pt.column, kind: pt.kind, classes: pt.classes.map((c) => c.value) }
+    : { column: pt.column, kind: pt.kind, ...(pt.positive !== undefined ? { positive: pt.positive } : {}) };
   const targetEncoded = plan.encoded.some((c) => c.spec.encoding === "target-kfold");
   if (targetEncoded && !target) throw new TailsiftError("bad_plan", "the plan target-encodes a column but has no target; rescan with --target");
   const needsTarget = training && targetEncoded;
@@ -118,7 +127,7 @@ async function encodeWith(engine: Engine, inputs: readonly string[], profile: Pr
     const sameContent = sameFile && await sameContentAsPlan(engine, source, profile);
     if (sameFile && !sameContent) levelSource = "input pass (content differs from the plan's scan)";
     if (sameContent) {
-      await inputLevelsFromPlan(engine, levelsPath, names);
+      await inputLevelsFromPlan(engine, levelsPath, names, pt?.kind === "multiclass" ? pt.classes.length : 0);
       levelSource = "plan level table";
     } else {
       await inputLevelsFromPass(engine, names, {

@@ -18,6 +18,7 @@ interface EncodeCliOptions {
   keep?: string[];
   keepOriginal?: boolean;
   leaveOneOut?: boolean;
+  allClasses?: boolean;
   recount?: boolean;
   rawNames?: boolean;
   cellGuard: boolean;
@@ -40,6 +41,7 @@ export function addEncodeCommand(program: Command, io: CliIO): void {
     .option("--keep <columns>", "pass these columns through untouched, e.g. keys and ids (comma-separated, repeatable)", list)
     .option("--keep-original", "also write each encoded column's text, as <column>__text")
     .option("--leave-one-out", "training: leave-one-out target encoding instead of out-of-fold")
+    .option("--all-classes", "multi-class target: write one target-encoded column per class (default: all but the largest class, whose value is 1 − the others)")
     .option("--raw-names", "keep the raw output names (clinic=Yarrowby Vets 24) instead of safe ones (clinic_Yarrowby_Vets_24)")
     .option("--no-cell-guard", "CSV/TSV: write text cells starting with = + - @ (or tab, CR) as they are, without the ' prefix that keeps spreadsheets from running them; for machine-only pipelines")
     .option("--recount", "training: count level sums from the input even when it is the extract the plan was made from")
@@ -51,7 +53,7 @@ export function addEncodeCommand(program: Command, io: CliIO): void {
       summary = await encode(inputs, {
         plan: o.plan, out: o.out, mode: o.for, foldColumn: o.foldColumn,
         ...(o.keep ? { keep: o.keep } : {}), keepOriginal: o.keepOriginal ?? false,
-        leaveOneOut: o.leaveOneOut ?? false, recount: o.recount ?? false,
+        leaveOneOut: o.leaveOneOut ?? false, allClasses: o.allClasses ?? false, recount: o.recount ?? false,
         rawNames: o.rawNames ?? false, cellGuard: o.cellGuard,
         memoryLimit: o.memoryLimit, threads: o.threads, tempDir: o.tempDir,
         skipBadRows: o.skipBadRows, encoding: o.encoding, delimiter: o.delimiter, missingLike: o.missingLike,

@@ -43,6 +43,7 @@ function chooseColumns(all: readonly string[], o: LevelScanOptions, targetName: 
 
 async function resolveTargetFromSums(engine: Engine, o: LevelScanOptions, totals: PassTotals, name: string): Promise<ProfileTarget> {
   const binaryLike = (await inferKind(engine)) === "binary";
+  if (o.targetKind === "multiclass") throw new TailsiftError("bad_option", "--target-kind multiclass needs the extract: scan --levels reads one y per level table; scan the file instead");
   const kind: TargetKind = o.targetKind ?? (o.positive !== undefined ? "binary" : binaryLike ? "binary" : "continuous");
   if (kind === "binary" && !binaryLike) {
     throw new TailsiftError("target_needs_positive", `target '${name}': the level tables' sums are not those of a 0/1 target (sum_y2 ≠ sum_y); use --target-kind continuous or write the SQL with --positive`);

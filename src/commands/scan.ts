@@ -10,14 +10,15 @@ import { checkFoldRequest, foldContractFor, timeBlockCuts, type FoldRequest } fr
 import { numberTypeOf, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
 import { normaliseMissingLike } from "../engine/missingLike.js";
 import { checkMeasuredWidth, countSkippedRows, describeFiles, openSource, type Source, type SourceOptions } from "../engine/source.js";
-import { resolveTarget, type TargetSpec } from "../engine/target.js";
+import { classesSql, DEFAULT_MAX_CLASSES, readClasses, resolveTarget, type ScanTargetKind, type TargetSpec } from "../engine/target.js";
 import { TailsiftError } from "../errors.js";
 import { adviseFromLevelTable } from "../pipeline/advise.js";
 import { planColumnKinds } from "../pipeline/columnKinds.js";
 import { addFoldNotes } from "../pipeline/foldNotes.js";
 import { addForwardFigures } from "../pipeline/forwardFigures.js";
+import { adviseMulticlassAndWrite, multiclassTarget } from "../pipeline/multiclass.js";
 import { checkTarget } from "../profile/checkTarget.js";
-import type { Encoding, Profile, TargetKind } from "../profile/types.js";
+import type { Encoding, Profile } from "../profile/types.js";
 
 export { toolVersion } from "../version.js";
 export { adviseFromLevelTable } from "../pipeline/advise.js";
@@ -26,7 +27,10 @@ export { VARIANT_MAX_LEVELS } from "../pipeline/columns.js";
 export interface ScanOptions extends EngineOptions, SourceOptions, FoldRequest {
   target?: string;
   positive?: string;
-  targetKind?: TargetKind;
+  /** multiclass: automatic for a text target of 3 to maxClasses values (pipeline/multiclass). */
+  targetKind?: ScanTargetKind;
+  /** The most classes of a multi-class target (default engine/target DEFAULT_MAX_CLASSES). */
+  maxClasses?: number;
   columns?: string[];
   exclude?: string[];
   /** Columns to profile as categorical even when they look numeric. */
@@ -94,7 +98,13 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
   let targetSpec: TargetSpec | undefined;
   if (options.target !== undefined) {
     const sampled = await sampleTargetValues(engine, source.view, options.target);
-    targetSpec = resolveTarget({ column: options.target, kind: options.targetKind, positive: options.positive }, sampled);
+    const maxClasses = options.maxClasses ?? DEFAULT_MAX_CLASSES;
+    targetSpec = resolveTarget({ column: options.target, kind: options.targetKind, positive: options.positive, maxClasses }, sampled);
+    if (targetSpec.kind === "multiclass") {
+      // the sample saw the first rows only: one query over the target column finds every class
+      const found = await engine.rows<{ v: string; n: number }>(classesSql(source.view, options.target, maxClasses), `listing the classes of '${options.target}'`);
+      targetSpec.classes = readClasses(options.target, found, maxClasses).map((c) => c.value);
+    }
   }
 
   const totals = await buildLevelTable(engine, {
@@ -104,10 +114,13 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
   if (totals.rows === 0) throw new TailsiftError("empty_input", `${describeFiles(source.files)} has a header but no rows; give a file with rows`);
   const skippedRows = await countSkippedRows(engine, source);
 
-  const profile = await adviseFromLevelTable(engine, {
+  const advise = targetSpec?.kind === "multiclass"
+    ? (ctx: Parameters<typeof adviseFromLevelTable>[1]) => adviseMulticlassAndWrite(engine, { ...ctx, target: multiclassTarget(targetSpec.column, targetSpec.classes ?? [], totals) })
+    : (ctx: Parameters<typeof adviseFromLevelTable>[1]) => adviseFromLevelTable(engine, ctx);
+  const profile = await advise({
     levelColumns, numeric: [...numeric, ...time], time, samples, allColumns: source.columns, totals, policy, top: options.top ?? 20, outOfFold: true,
     missingLike: normaliseMissingLike(options.missingLike),
-    target: targetSpec ? checkTarget(targetSpec, totals) : undefined, targetColumn: options.target,
+    target: targetSpec && targetSpec.kind !== "multiclass" ? checkTarget({ ...targetSpec, kind: targetSpec.kind }, totals) : undefined, targetColumn: options.target,
     decide: options.decide, levelTableOut: options.levelTableOut,
     input: {
       paths: source.files, rows: totals.rows, bytes: source.bytes, fingerprint: source.fingerprint, format: source.format,

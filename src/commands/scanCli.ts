@@ -25,7 +25,7 @@ import { scanLevels, type LevelScanOptions } from "./levels.js";
 import { scan } from "./scan.js";
 
 export interface ScanCliOptions extends FoldRequest {
-  target?: string; positive?: string; targetKind?: "binary" | "continuous";
+  target?: string; positive?: string; targetKind?: "binary" | "continuous" | "multiclass"; maxClasses?: number;
   columns?: string[]; exclude?: string[]; asCategorical?: string[];
   top: number; maxOneHot: number; minLevelRows: number; coverage: number; collisionBudget: number;
   /** --max-hash-bits: the hash width cap as a power of two (policy.hashMaxBits). */

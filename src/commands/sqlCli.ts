@@ -8,6 +8,7 @@ import type { CliIO } from "./io.js";
 import { levelSql, type LevelSqlOptions } from "./sql.js";
 import { scoringQuery } from "../portableSql/scoringCommand.js";
 import { TailsiftError } from "../errors.js";
+import { readPlan } from "../plan/load.js";
 
 /** The command's options: the query options, with --columns optional until checked. */
 type SqlCliOptions = Omit<LevelSqlOptions, "columns"> & { columns?: string[]; plan?: string; inlineMax?: number; mappingsOut?: string; rawNames?: boolean };
@@ -34,6 +35,7 @@ export function addSqlCommand(program: Command, io: CliIO): void {
       if (opts.plan !== undefined) {
         const misplaced = [opts.columns ? "--columns" : "", opts.target ? "--target" : "", opts.positive ? "--positive" : "", opts.targetKind ? "--target-kind" : "", opts.foldExpr ? "--fold-expr" : "", opts.folds !== undefined ? "--folds" : "", opts.missingLike ? "--missing-like" : ""].filter((x) => x);
         if (misplaced.length > 0) throw new TailsiftError("bad_option", `${misplaced.join(", ")} do not apply with --plan: the plan says what is encoded`);
+        refuseClassEncodings(opts.plan);
         const { sql } = await scoringQuery({ plan: opts.plan, from: opts.from, dialect: opts.dialect, inlineMax: opts.inlineMax, mappingsOut: opts.mappingsOut, rawNames: opts.rawNames });
         io.stdout(`${sql.trimEnd()};\n`);
         return;
@@ -46,4 +48,13 @@ export function addSqlCommand(program: Command, io: CliIO): void {
       });
       io.stdout(`${sql.trimEnd()};\n`);
     });
+}
+
+/** The portable scoring SQL has no multi-class target encoding yet: such a plan is refused in one line. */
+function refuseClassEncodings(plan: string): void {
+  const { profile } = readPlan(plan, "sql", false);
+  const encoded = profile.columns.filter((c) => c.recommendation.encoding === "target-kfold" && "classes" in c.recommendation.params && c.recommendation.params.classes !== undefined).map((c) => c.name);
+  if (encoded.length > 0) {
+    throw new TailsiftError("unsupported_plan", `sql --plan cannot yet write the multi-class target encoding of ${encoded.map((c) => `'${c}'`).join(", ")}; use encode --for scoring, or rescan with --decide ${encoded[0]}=one-hot (or another encoding)`);
+  }
 }

@@ -21,7 +21,7 @@ import type { ColumnMap, EncodeMode, EncodingSpec, MapContext, OutputSqlType } f
 export interface ColumnOf<S extends EncodingSpec> { name: string; index: number; spec: S }
 
 /** What one output column of an encoding holds (aligned with outputNames). */
-export interface OutputHolds { level?: string | null; pooled?: true }
+export interface OutputHolds { level?: string | null; pooled?: true; class?: string }
 
 export interface EncodingModule<S extends EncodingSpec> {
   /** Raw output names, in output order (safe names are derived from them: encode/safeNames). */

@@ -8,21 +8,26 @@
  * level table (PLAN_LEVELS) is loaded by plan/load, the loader encode shares with drift.
  */
 import { buildLevelTable, LEVEL_TABLE, type PassPlan } from "../engine/aggregate.js";
+import { classSumColumn, planClasses } from "../engine/passPlan.js";
 import type { Engine } from "../engine/db.js";
 import { quoteLiteral, sqlNumber } from "../engine/sql.js";
 import { planLevelRowsSql } from "../plan/load.js";
 import { TailsiftError } from "../errors.js";
 
 export const INPUT_LEVELS = "tailsift_enc_input";
+
+/** A multi-class target's class sums (sum_c0 …) in a level-table SELECT ("" for other targets). */
+export const classSums = (classes: number, alias = ""): string =>
+  Array.from({ length: classes }, (_, k) => `, ${alias}${classSumColumn(k)}::DOUBLE AS ${classSumColumn(k)}`).join("");
 /** The plan's level table (plan/load): (name, level, rows, n_y, sum_y, sum_y2), summed over folds. */
 export { PLAN_LEVELS } from "../plan/load.js";
 
 const EMPTY = `SELECT NULL::VARCHAR AS name, NULL::VARCHAR AS level, 0::INTEGER AS fold, 0::DOUBLE AS rows, 0::DOUBLE AS n_y, 0::DOUBLE AS sum_y LIMIT 0`;
 
 /** Loads the plan's per-fold level table (levels.parquet) for `names` as the input's table. */
-export async function inputLevelsFromPlan(engine: Engine, levelsPath: string, names: readonly string[]): Promise<void> {
+export async function inputLevelsFromPlan(engine: Engine, levelsPath: string, names: readonly string[], classes = 0): Promise<void> {
   const select = names.length === 0 ? EMPTY
-    : `SELECT "column" AS name, level, fold::INTEGER AS fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y::DOUBLE AS sum_y
+    : `SELECT "column" AS name, level, fold::INTEGER AS fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y::DOUBLE AS sum_y${classSums(classes)}
        FROM (${planLevelRowsSql(levelsPath, names)})`;
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${INPUT_LEVELS} AS ${select}`, `reading the plan's level table '${levelsPath}'`);
 }
@@ -47,7 +52,7 @@ export async function inputLevelsFromPass(engine: Engine, names: readonly string
     throw new TailsiftError("target_empty", `target '${pass.target.column}' has no values in the input; --for training needs them`);
   }
   const select = names.length === 0 ? EMPTY
-    : `SELECT n.name, l.level, l.fold, l.rows::DOUBLE AS rows, l.n_y::DOUBLE AS n_y, l.sum_y
+    : `SELECT n.name, l.level, l.fold, l.rows::DOUBLE AS rows, l.n_y::DOUBLE AS n_y, l.sum_y${classSums(planClasses(pass).length, "l.")}
        FROM ${LEVEL_TABLE} l JOIN (VALUES ${names.map((c, i) => `(${sqlNumber(i)}, ${quoteLiteral(c)})`).join(", ")}) n(col, name) ON l.col = n.col`;
   await engine.run(`CREATE OR REPLACE TEMP TABLE ${INPUT_LEVELS} AS ${select}`, "naming the input's level table");
   return totals.rows;

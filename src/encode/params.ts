@@ -5,7 +5,7 @@
  */
 import { TailsiftError } from "../errors.js";
 import { HASH_NAME } from "../engine/hashing.js";
-import type { ColumnProfile } from "../profile/types.js";
+import type { ColumnProfile, MulticlassTarget } from "../profile/types.js";
 import { hashingGrouping, targetStructure } from "./hierarchyParams.js";
 import type { EncodingSpec } from "./types.js";
 
@@ -45,7 +45,7 @@ function positiveInteger(column: string, value: unknown, name: string): number {
  *   plan's cap, an unknown encoding or grouping; `unsupported_plan` for a grouping on encodings other than target-kfold, hashing and codes,
  *   or a hierarchical prior on one other than target-kfold.
  */
-export function encodingSpec(column: ColumnProfile, maxHashBits?: number): EncodingSpec | "drop" | "keep" {
+export function encodingSpec(column: ColumnProfile, maxHashBits?: number, target?: MulticlassTarget, allClasses = false): EncodingSpec | "drop" | "keep" {
   const { encoding } = column.recommendation;
   // the plan is a file a user may have edited: its parameters are read as unknown and checked
   const params: Record<string, unknown> = Object.fromEntries(Object.entries(column.recommendation.params));
@@ -79,6 +79,7 @@ export function encodingSpec(column: ColumnProfile, maxHashBits?: number): Encod
       return grouping ? { encoding, tableSize, grouping } : { encoding, tableSize };
     }
     case "target-kfold": {
+      if (params.classes !== undefined) return classesSpec(name, params.classes, target, allClasses);
       const structure = targetStructure(name, params);
       if (structure) return { encoding, structure };
       const m = params.weight;
@@ -89,4 +90,25 @@ export function encodingSpec(column: ColumnProfile, maxHashBits?: number): Encod
     }
     default: throw bad(name, `unknown encoding '${String(encoding)}'`);
   }
+}
+
+/**
+ * A multi-class target's target encoding (params.classes, pipeline/multiclassAdvice): each class
+ * of the plan's target with its m (null = ∞) and its share; `dropped` = the largest class (first
+ * in order on a tie) unless --all-classes.
+ */
+function classesSpec(name: string, value: unknown, target: MulticlassTarget | undefined, allClasses: boolean): EncodingSpec {
+  if (!target) throw bad(name, "params.classes needs the plan's multi-class target (target.classes)");
+  if (!Array.isArray(value) || value.length !== target.classes.length) throw bad(name, `params.classes must list the target's ${target.classes.length} classes`);
+  const classes = value.map((entry: unknown, k) => {
+    const e = (entry ?? {}) as Record<string, unknown>;
+    const cls = target.classes[k]!;
+    if (e.value !== cls.value) throw bad(name, `params.classes[${k}].value must be '${cls.value}' (the target's classes, in order)`);
+    const m = e.weight;
+    if (m !== null && (typeof m !== "number" || !Number.isFinite(m) || m < 0)) throw bad(name, `params.classes[${k}].weight must be a number ≥ 0, or null (no detectable spread: the prior)`);
+    return { value: cls.value, weight: m as number | null, share: cls.share };
+  });
+  let largest = 0;
+  classes.forEach((c, k) => { if (c.share > classes[largest]!.share) largest = k; });
+  return { encoding: "target-kfold", classes, dropped: allClasses ? null : largest };
 }

@@ -25,7 +25,7 @@ import type { OutputSqlType, PassType } from "./types.js";
 export function passSqlType(type: PassType, target: TargetSpec | undefined): OutputSqlType {
   if (type === "integer") return "BIGINT";
   if (type === "double") return "DOUBLE";
-  if (type === "target") return target?.kind === "binary" ? "INTEGER" : "DOUBLE";
+  if (type === "target") return target?.kind === "binary" ? "INTEGER" : target?.kind === "multiclass" ? "VARCHAR" : "DOUBLE";
   return "VARCHAR";
 }
 
@@ -52,6 +52,8 @@ export function passSql(column: string, type: PassType, ctx: PassContext): strin
   if (type === "target") {
     const t = ctx.target;
     if (!t) return raw;
+    // a multi-class target is its class's text, trimmed as the scan read it (engine/target)
+    if (t.kind === "multiclass") return ctx.csv && ctx.cellGuard ? guardCellSql(`trim(${raw})`) : `trim(${raw})`;
     const y = targetSql(t);
     const bad = fail(`target '${column}' is ${t.kind} in the plan${t.positive !== undefined ? ` (positive '${t.positive}')` : ""}, but the input holds`, raw, keepHint);
     if (t.kind === "binary") return `(CASE WHEN ${y.bad} THEN ${bad} ELSE CAST(${y.y} AS INTEGER) END)`;

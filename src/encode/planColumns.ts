@@ -16,6 +16,8 @@ export interface ColumnPlanOptions {
   foldColumn: string;
   /** Training: the columns the plan's fold contract reads (engine/folds keyColumns); they must be in the input. */
   foldKeys: readonly string[];
+  /** A multi-class target's encoding writes every class (--all-classes), not K − 1. */
+  allClasses?: boolean;
 }
 
 export interface ColumnPlan {
@@ -60,7 +62,8 @@ export function planColumns(profile: Profile, inputColumns: readonly string[], o
   if (o.mode === "training" && target !== undefined && !present.has(target)) {
     throw new TailsiftError("target_missing", `--for training needs the plan's target column '${target}' in the input (the out-of-fold encoding is computed from it); use --for scoring for data without the target`);
   }
-  const specs = new Map(profile.columns.map((c) => [c.name, encodingSpec(c, profile.settings.maxHashBits)]));
+  const multiclass = profile.target?.kind === "multiclass" ? profile.target : undefined;
+  const specs = new Map(profile.columns.map((c) => [c.name, encodingSpec(c, profile.settings.maxHashBits, multiclass, o.allClasses ?? false)]));
   const needed = new Set(profile.columns.filter((c) => c.name !== target && specs.get(c.name) !== "drop").map((c) => c.name));
   if (o.mode === "training") for (const c of o.foldKeys) needed.add(c);
   const missing = [...needed].filter((c) => !present.has(c));

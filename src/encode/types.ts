@@ -20,8 +20,16 @@ export type EncodingSpec =
   /** Codes over backoff groups (encode/codedGroupMap). */
   | { encoding: "codes"; tableSize: number; grouping: HashGrouping }
   /** weight null: no detectable spread, m = ∞ (every level takes the prior). */
-  | { encoding: "target-kfold"; weight: number | null; structure?: undefined }
-  | { encoding: "target-kfold"; structure: TargetStructure };
+  | { encoding: "target-kfold"; weight: number | null; structure?: undefined; classes?: undefined }
+  | { encoding: "target-kfold"; structure: TargetStructure; classes?: undefined }
+  /** A multi-class target (encode/encodings/targetClasses): one output per class but `dropped`. */
+  | { encoding: "target-kfold"; classes: ClassSpec[]; dropped: number | null; structure?: undefined; weight?: undefined };
+
+/**
+ * One class of a multi-class target encoding: its m (null = ∞) and its share of the plan's rows
+ * with a target (the scoring prior, as the plan's target mean is for a binary target).
+ */
+export interface ClassSpec { value: string; weight: number | null; share: number }
 
 /**
  * Target encoding over a level hierarchy (the evidence's backoff and hierarchical candidates).
@@ -98,6 +106,8 @@ export interface OutputColumn {
   level?: string | null;
   /** Pooled one-hot: the column that is 1 for every other non-missing level. */
   pooled?: true;
+  /** Target encoding of a multi-class target: the class this column estimates. */
+  class?: string;
   /** The type in Parquet (CSV writes the same values as text). */
   type: OutputSqlType;
 }

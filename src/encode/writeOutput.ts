@@ -152,7 +152,8 @@ function manifest(ctx: WriteContext, entries: Record<string, unknown>[], outputs
       map: outputs,
     },
     ...(ctx.folds ? { folds: foldManifest(outputs.find((x) => x.kind === "fold")?.name ?? o.foldColumn, ctx.folds.contract) } : {}),
-    ...(t ? { target: { column: t.column, kind: t.kind, positive: t.positive ?? null, mean: t.mean, ...(typedTarget ? { output: targetOutput(t, typedTarget.name) } : {}) } } : {}),
+    ...(t?.kind === "multiclass" ? { target: { column: t.column, kind: t.kind, classes: t.classes.map((c) => c.value) } } : {}),
+    ...(t && t.kind !== "multiclass" ? { target: { column: t.column, kind: t.kind, positive: t.positive ?? null, mean: t.mean, ...(typedTarget ? { output: targetOutput(t, typedTarget.name) } : {}) } } : {}),
     columns: entries,
   };
 }

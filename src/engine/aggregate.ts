@@ -3,7 +3,8 @@
  *   tailsift_levels(col, level, fold, rows, n_y, sum_y, sum_y2)
  * where col is the index of the column in the pass, level its text value (NULL = missing), fold
  * the row's fold, rows the row count, n_y the rows with a usable target and sum_y / sum_y2 the
- * target sums. Rows with col = -1 are the per-fold totals (all rows), which also carry the count
+ * target sums (a multi-class target adds sum_c0 … sum_c{K-1}, the rows of each class, and its sum_y /
+ * sum_y2 are those of the class index, never read). Rows with col = -1 are the per-fold totals (all rows), which also carry the count
  * of target values that did not fit the target kind and the non-missing count of numeric columns.
  */
 import { formatContentFingerprint } from "./contentFingerprint.js";
@@ -13,7 +14,7 @@ import { readTimeTotals, timeFlagSql, timePassAggregates, timeTotalsSql, timeVal
 import { buildWideLevelTable, useWidePass } from "./widePass.js";
 
 export { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
-import { DISTINCT_COL_BASE, LEVEL_TABLE, rowFieldsSql, type PassPlan } from "./passPlan.js";
+import { classSumColumn, classSumsSql, DISTINCT_COL_BASE, LEVEL_TABLE, planClasses, rowFieldsSql, type PassPlan } from "./passPlan.js";
 
 export interface PassTotals {
   rows: number;
@@ -29,6 +30,8 @@ export interface PassTotals {
   time?: Map<string, TimeTotals>;
   /** Per distinct-counted column: exact distinct values and rows of the most repeated value. */
   distinct?: Map<string, { distinct: number; maxRows: number }>;
+  /** Multi-class targets: the rows of each class (in the plan's class order). */
+  classRows?: number[];
 }
 
 /** The level-table query. For a binary target y ∈ {0, 1}, so Σy² = Σy and is not summed twice. */
@@ -50,7 +53,7 @@ export function levelPassSql(plan: PassPlan): string {
   const level = grouped.length === 0
     ? "NULL::VARCHAR"
     : grouped.length === 1 ? grouped[0]!.v : `COALESCE(${grouped.map((g) => g.v).join(", ")})`;
-  const counts = plan.countColumns.map((_, i) => `, count(__n${i})::BIGINT AS __nn${i}`).join("")
+  const counts = classSumsSql(plan) + plan.countColumns.map((_, i) => `, count(__n${i})::BIGINT AS __nn${i}`).join("")
     + (plan.timeColumns ?? []).map((_, i) => `, ${timePassAggregates(`__t${i}`, i)}`).join("")
     + (plan.contentColumns ? ", sum(__h)::HUGEINT AS __content" : "");
   // time columns' granularity flags are computed per row, below the grouping (engine/timeColumns)
@@ -85,8 +88,9 @@ async function buildGroupingSetsLevelTable(engine: Engine, plan: PassPlan, doing
   for (let offset = PASS_BATCH; offset < plan.levelColumns.length; offset += PASS_BATCH) {
     const batch = plan.levelColumns.slice(offset, offset + PASS_BATCH);
     const sql = levelPassSql({ ...plan, levelColumns: batch, countColumns: [], timeColumns: [], distinctColumns: [] });
+    const classes = planClasses(plan).map((_, k) => `, ${classSumColumn(k)}`).join("");
     await engine.run(
-      `INSERT INTO ${LEVEL_TABLE} BY NAME SELECT col + ${sqlNumber(offset)} AS col, level, fold, rows, n_y, sum_y, sum_y2, bad FROM (${sql}) WHERE col >= 0`,
+      `INSERT INTO ${LEVEL_TABLE} BY NAME SELECT col + ${sqlNumber(offset)} AS col, level, fold, rows, n_y, sum_y, sum_y2, bad${classes} FROM (${sql}) WHERE col >= 0`,
       `${doing} (columns ${offset + 1}–${offset + batch.length})`);
   }
 }
@@ -108,13 +112,16 @@ async function readDistinctCounts(engine: Engine, plan: PassPlan): Promise<Map<s
 
 async function readPassTotals(engine: Engine, plan: PassPlan): Promise<PassTotals> {
   const distinct = await readDistinctCounts(engine, plan);
-  const counts = plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("")
+  const classes = planClasses(plan);
+  const counts = classes.map((_, k) => `, sum(${classSumColumn(k)})::DOUBLE AS c${k}`).join("")
+    + plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("")
     + (plan.contentColumns ? ", sum(__content)::VARCHAR AS content" : "");
   const rows = await engine.rows<Record<string, number>>(
     `SELECT fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, bad::DOUBLE AS bad${counts}
      FROM ${LEVEL_TABLE} WHERE col = -1 GROUP BY ALL ORDER BY fold`, "reading the pass totals");
   const foldRows = Array.from({ length: plan.fold.k }, () => 0);
-  const totals: PassTotals = { rows: 0, foldRows, targetRows: 0, sumY: 0, sumY2: 0, badTargets: 0, nonMissing: new Map(), time: new Map(), distinct };
+  const totals: PassTotals = { rows: 0, foldRows, targetRows: 0, sumY: 0, sumY2: 0, badTargets: 0, nonMissing: new Map(), time: new Map(), distinct,
+    ...(classes.length > 0 ? { classRows: classes.map(() => 0) } : {}) };
   for (const r of rows) {
     foldRows[r.fold ?? 0] = r.rows ?? 0;
     totals.rows += r.rows ?? 0;
@@ -122,6 +129,7 @@ async function readPassTotals(engine: Engine, plan: PassPlan): Promise<PassTotal
     totals.sumY += r.sum_y ?? 0;
     totals.sumY2 += r.sum_y2 ?? 0;
     totals.badTargets += r.bad ?? 0;
+    totals.classRows?.forEach((n, k) => { totals.classRows![k] = n + (r[`c${k}`] ?? 0); });
     plan.countColumns.forEach((c, i) => totals.nonMissing.set(c, (totals.nonMissing.get(c) ?? 0) + (r[`nn${i}`] ?? 0)));
   }
   if (plan.contentColumns) totals.content = formatContentFingerprint(totals.rows, rows.map((r) => (r as unknown as { content: string | null }).content));

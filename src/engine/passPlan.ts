@@ -46,3 +46,19 @@ export function rowFieldsSql(plan: PassPlan): string[] {
     ...(plan.contentColumns ? [`${contentHashSql(plan.contentColumns)} AS __h`] : []),
   ];
 }
+
+/** The level table's column of class k's rows (multi-class targets only: y = k). */
+export const classSumColumn = (k: number): string => `sum_c${k}`;
+
+/** The classes of a multi-class target in the plan (none otherwise). */
+export const planClasses = (plan: Pick<PassPlan, "target">): readonly string[] =>
+  plan.target?.kind === "multiclass" ? plan.target.classes ?? [] : [];
+
+/**
+ * Multi-class targets: the per-class row counts added to the pass's aggregates (an empty string
+ * for binary and continuous targets, whose SQL is unchanged). The same in both pass shapes: in the
+ * wide pass every unnested entry is one row's, so the counts are per (col, level, fold) alike.
+ */
+export function classSumsSql(plan: PassPlan): string {
+  return planClasses(plan).map((_, k) => `, count(*) FILTER (WHERE __y = ${k})::DOUBLE AS ${classSumColumn(k)}`).join("");
+}

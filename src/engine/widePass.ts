@@ -18,7 +18,7 @@
  * GROUPING SETS pass.
  */
 import type { Engine } from "./db.js";
-import { DISTINCT_COL_BASE, LEVEL_TABLE, rowFieldsSql, type PassPlan } from "./passPlan.js";
+import { classSumsSql, DISTINCT_COL_BASE, LEVEL_TABLE, rowFieldsSql, type PassPlan } from "./passPlan.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
 import { timeFlagNames, timeFlagSql, timePassAggregates, timeValueSql } from "./timeColumns.js";
 
@@ -64,7 +64,7 @@ export function widePassSql(plan: PassPlan): string {
   const content = plan.contentColumns ? `, sum(__h) FILTER (WHERE col = -1)::HUGEINT AS __content` : "";
   const y2 = plan.target?.kind === "binary" ? "coalesce(sum(__y), 0)::DOUBLE" : "coalesce(sum(__y * __y), 0)::DOUBLE";
   return `SELECT col, level, __fold AS fold, count(*)::BIGINT AS rows, count(__y)::BIGINT AS n_y,
-  coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${y2} AS sum_y2, count(*) FILTER (WHERE __bad)::BIGINT AS bad${timeAggs}${content}
+  coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${y2} AS sum_y2, count(*) FILTER (WHERE __bad)::BIGINT AS bad${classSumsSql(plan)}${timeAggs}${content}
 FROM (SELECT __fold, __y, __bad${timeCols}${plan.contentColumns ? ", __h" : ""}, unnest([${cols.join(", ")}])::INTEGER AS col, unnest(__vals) AS level
       FROM (SELECT *${flags.map((f) => `, ${f}`).join("")}
             FROM (SELECT ${rowFieldsSql(plan).join(", ")}${timeValues},

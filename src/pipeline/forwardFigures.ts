@@ -24,7 +24,7 @@ export async function addForwardFigures(engine: Engine, profile: Profile, levelC
     const figure = forwardUnseenFigure(steps.get(col) ?? []);
     if (column && figure) column.forwardUnseen = figure;
   });
-  if (!profile.target) return;
+  if (!profile.target || profile.target.kind === "multiclass") return;
   const weights = new Map<number, number | null>();
   levelColumns.forEach((name, col) => {
     const t = profile.columns.find((c) => c.name === name)?.target;

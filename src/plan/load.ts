@@ -96,10 +96,12 @@ export async function loadPlanLevels(engine: Engine, levelsPath: string, reader:
   if (lacking.length > 0) {
     throw new TailsiftError("bad_level_table", `${reader}: '${levelsPath}' is not a tailsift level table (no ${lacking.join(", ")}); rescan with scan --out`);
   }
+  // a multi-class scan's table also holds each class's rows (sum_c0 …, engine/levelFile): kept
+  const classes = [...have].filter((c) => /^sum_c\d+$/.test(c)).sort((a, b) => Number(a.slice(5)) - Number(b.slice(5))).map((c) => `, sum(${c})::DOUBLE AS ${c}`).join("");
   await engine.run(
     `CREATE OR REPLACE TEMP TABLE ${PLAN_LEVELS} AS
      SELECT "column" AS name, level, sum(rows)::BIGINT AS rows, sum(n_y)::BIGINT AS n_y,
-            sum(sum_y)::DOUBLE AS sum_y, sum(sum_y2)::DOUBLE AS sum_y2
+            sum(sum_y)::DOUBLE AS sum_y, sum(sum_y2)::DOUBLE AS sum_y2${classes}
      FROM (${planLevelRowsSql(levelsPath, names)}) GROUP BY ALL`, doing);
   if (names === undefined) return;
   const rows = await engine.rows<{ name: string }>(`SELECT DISTINCT name FROM ${PLAN_LEVELS}`, doing);

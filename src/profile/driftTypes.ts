@@ -3,7 +3,7 @@
  * fractions in [0, 1]; a figure that cannot be computed (no rows, column missing) is null, never
  * NaN. Keys may be added, none removed.
  */
-import type { ColumnRole, Encoding, TargetKind } from "./types.js";
+import type { ColumnRole, Encoding, ScanTargetKind, TargetKind } from "./types.js";
 
 export type DriftStatus = "ok" | "watch" | "act";
 
@@ -89,12 +89,25 @@ export interface DriftTarget extends RateShift {
   reasons: string[];
 }
 
+/** A multi-class target's class mix against the plan's (drift/classDrift). */
+export interface DriftClasses {
+  column: string;
+  /** New-extract rows with a target value. */
+  rows: number;
+  psi: number | null;
+  classes: { value: string; planShare: number; rows: number; share: number }[];
+  /** Classes the plan does not know, largest first. */
+  unknown: { value: string; rows: number }[];
+  status: DriftStatus;
+  reasons: string[];
+}
+
 export interface DriftReport {
   tool: { name: "tailsift"; version: string };
   createdAt: string;
   plan: {
     path: string; createdAt: string; paths: string[]; rows: number; fingerprint: string; top: number;
-    target?: { column: string; kind: TargetKind; mean: number };
+    target?: { column: string; kind: ScanTargetKind; mean: number };
   };
   input: {
     paths: string[]; rows: number; bytes: number; fingerprint: string; format: string;
@@ -106,6 +119,8 @@ export interface DriftReport {
   thresholds: DriftThresholds;
   /** The overall target shift; absent when the plan has no target or the extract lacks it. */
   target?: DriftTarget;
+  /** A multi-class target's class mix; absent otherwise or when the extract lacks it. */
+  classes?: DriftClasses;
   columns: ColumnDrift[];
   status: DriftStatus;
 }

@@ -64,7 +64,13 @@ interface TargetBase {
   priorMean: number | null;
   fallback: "prior mean";
 }
-export interface FlatTargetParams extends TargetBase { grouping?: undefined; prior?: undefined }
+/** A multi-class target's class, encoded one against the rest (pipeline/multiclassAdvice). */
+export interface ClassTargetParams { value: string; weight: PriorWeight; priorMean: number }
+/**
+ * Flat target encoding. With `classes` (a multi-class target) one output per class, each the
+ * class's m-estimate with its own weight and prior; `weight` and `priorMean` are then null.
+ */
+export interface FlatTargetParams extends TargetBase { grouping?: undefined; prior?: undefined; classes?: ClassTargetParams[] }
 export interface BackoffTargetParams extends TargetBase, BackoffGroupingParams { method: string; prior?: undefined }
 export interface HierarchicalTargetParams extends TargetBase {
   prior: "hierarchical";

@@ -3,9 +3,9 @@ import type { ForwardUnseen } from "../engine/forwardUnseen.js";
 import type { TargetKind } from "../engine/target.js";
 import type { Evidence } from "./evidenceTypes.js";
 import type { HierarchyFigures } from "./hierarchyTypes.js";
-import type { PriorWeight, Recommendation } from "./recommendation.js";
+import type { Encoding, PriorWeight, Recommendation } from "./recommendation.js";
 
-export type { TargetKind } from "../engine/target.js";
+export type { ScanTargetKind, TargetKind } from "../engine/target.js";
 export { ENCODINGS, type Encoding, type PriorWeight, type Recommendation } from "./recommendation.js";
 export type { FoldContract } from "../engine/folds.js";
 
@@ -33,11 +33,12 @@ export interface Profile {
     redacted?: boolean;
     fromLevels?: boolean;
   };
-  target?: ProfileTarget;
+  target?: ProfileTarget | MulticlassTarget;
   settings: ProfileSettings;
   columns: ColumnProfile[];
 }
 
+/** The target the pipeline measures: binary (also one class against the rest) or continuous. */
 export interface ProfileTarget {
   column: string;
   kind: TargetKind;
@@ -46,6 +47,7 @@ export interface ProfileTarget {
   rows: number;
   /** Rows whose target is missing (left out of every target figure). */
   missing: number;
+  /** Binary: the positive share; continuous: the mean. */
   mean: number;
   /** Continuous targets: population standard deviation of the target. */
   sd?: number;
@@ -97,6 +99,42 @@ export interface ColumnTargetFigures {
   funnel?: { value: string | null; rows: number; rate: number }[];
 }
 
+/**
+ * A multi-class target, measured one class against the rest (pipeline/multiclass). `mean` is the
+ * share of the largest class (what always predicting it gets right).
+ */
+export interface MulticlassTarget extends Omit<ProfileTarget, "kind" | "positive" | "sd"> {
+  kind: "multiclass";
+  /** Every class, sorted by code unit, with its rows and share of `rows`. */
+  classes: TargetClass[];
+}
+
+export interface TargetClass { value: string; rows: number; share: number }
+
+/**
+ * A multi-class target: one class against the rest — exactly the figures a binary scan with
+ * --positive CLASS gives this column (pipeline/multiclass).
+ */
+export interface ClassFigures {
+  value: string;
+  target: ColumnTargetFigures;
+  /** The class's rate in each of the column's top levels (same order as topLevels), with its Wilson interval. */
+  levels: Pick<LevelFigure, "targetMean" | "low" | "high" | "smoothed" | "flag">[];
+  evidence?: Evidence;
+  /** What the binary path advises for this class against the rest. */
+  advised: Encoding;
+}
+
+/** A multi-class target: the column scored by the out-of-fold multi-class log loss (engine/multiclassLoss). */
+export interface MulticlassEvidence {
+  metric: "multiclass-log-loss";
+  folds: number;
+  rows: number;
+  candidates: { candidate: "class-shares" | "target-kfold"; loss: number; se: number | null; foldLosses: number[] }[];
+  chosen: "class-shares" | "target-kfold";
+  reason: string;
+}
+
 export interface ColumnProfile {
   name: string;
   role: ColumnRole;
@@ -117,6 +155,10 @@ export interface ColumnProfile {
   /** Count-of-counts (rows per level → number of levels), bounded (≈ sqrt(2N) entries). */
   countOfCounts?: { count: number; levels: number }[];
   target?: ColumnTargetFigures;
+  /** Multi-class targets: the figures of each class against the rest (the column has no `target`). */
+  classes?: ClassFigures[];
+  /** Multi-class targets: class shares against one-vs-rest target encoding, multi-class log loss out-of-fold. */
+  multiclassEvidence?: MulticlassEvidence;
   hashing?: {
     width: number;
     collisionRowShare: number;

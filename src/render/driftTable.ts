@@ -30,6 +30,7 @@ function summary(r: DriftReport): string[] {
     `drift: ${formatCount(r.input.rows)} rows against the plan of ${formatCount(r.plan.rows)} rows (${r.plan.path}); status ${r.status} (${counts})`,
   ];
   if (r.target) lines.push(`target: ${r.target.reasons.join(" ")}`);
+  else if (r.classes) lines.push(`target (${r.classes.status}): ${r.classes.reasons.join(" ")}`);
   else if (r.plan.target) lines.push(`target: '${r.plan.target.column}' is not in the new extract; target shift not checked.`);
   if (r.target && r.target.bad > 0) lines.push(`target: ${formatCount(r.target.bad)} values fit neither target class and were left out.`);
   if (r.input.newColumns.length > 0) lines.push(`new columns not in the plan: ${r.input.newColumns.join(", ")}`);

@@ -6,6 +6,7 @@
 import { foldKindText } from "../engine/folds.js";
 import type { ColumnProfile, Profile, Recommendation } from "../profile/types.js";
 import { formatCompact, formatCount, formatNumber, formatShare } from "./format.js";
+import { classParamsText } from "./classFigures.js";
 import { numericValuesText, passThroughFigures, placeholderFigure, roleNotes } from "./passThroughFigures.js";
 
 /** A labelled figure: label and value are plain text (not escaped). */
@@ -47,6 +48,8 @@ export function paramValueText(value: unknown): string {
 
 /** Parameters as `name=value` pairs in the order the recommendation lists them. */
 export function paramsText(params: object): string {
+  const classes = classParamsText(params);
+  if (classes !== null) return classes;
   const entries = Object.entries(params);
   return entries.length === 0 ? "—" : entries.map(([k, v]) => `${k}=${paramValueText(v)}`).join(", ");
 }
@@ -143,7 +146,9 @@ export function headerFigures(profile: Profile): Figure[] {
   if (input.format) figures.push({ label: "format", value: input.format });
   const t = profile.target;
   figures.push({ label: "target", value: t === undefined ? "none"
-    : `${t.column} (${t.kind}${t.positive === undefined ? "" : `, positive = "${t.positive}"`}); mean ${formatCompact(t.mean)}`
+    : t.kind === "multiclass"
+      ? `${t.column} (multiclass, ${t.classes.length} classes: ${t.classes.map((c) => `${c.value} ${formatShare(c.share)}`).join(", ")}); ${formatCount(t.rows)} rows, ${formatCount(t.missing)} missing`
+      : `${t.column} (${t.kind}${t.positive === undefined ? "" : `, positive = "${t.positive}"`}); mean ${formatCompact(t.mean)}`
       + `${t.sd === undefined ? "" : `, sd ${formatCompact(t.sd)}`}; ${formatCount(t.rows)} rows, ${formatCount(t.missing)} missing` });
   return figures;
 }

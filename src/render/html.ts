@@ -4,6 +4,7 @@
  * Content-Security-Policy that forbids every network load. Every string from the data is
  * HTML-escaped; chart text is escaped by vega's SVG renderer. Same profile → same bytes.
  */
+import { classTables } from "./classFigures.js";
 import type { ColumnProfile, LevelFigure, Profile, ProfileTarget } from "../profile/types.js";
 import { chartSvg, collisionChartSpec, coverageChartSpec, evidenceChartSpec, funnelChartSpec, type ChartSpec } from "./charts.js";
 import { CONTROL_CHARACTERS, controlEscape, escapeHtml } from "./escape.js";
@@ -86,7 +87,7 @@ async function columnCharts(column: ColumnProfile, profile: Profile): Promise<st
       `Share of non-missing rows held by the most frequent levels (${source}). Dashed line: the `
       + `${formatShare(coverage, 0)} coverage target` + (s.maxOneHot === undefined ? "." : `; dotted red line: the one-hot width (${s.maxOneHot}).`)));
   }
-  const target = profile.target;
+  const target = profile.target?.kind === "multiclass" ? undefined : profile.target;
   if (target) {
     const limits = target.kind === "binary" || target.sd !== undefined
       ? "Dots outside the funnel (95 % limits dashed, 99.8 % solid) differ from the overall mean (dark line) by more than chance explains at that size (Spiegelhalter 2005); the most extreme are labelled."
@@ -142,9 +143,11 @@ async function columnSection(column: ColumnProfile, index: number, profile: Prof
     `<p class="params"><b>Role:</b> ${h(column.role)} · <b>Parameters:</b> <code>${h(paramsText(rec.params))}</code></p>`,
     `<div class="split">`,
     `<table class="figures"><caption>Key figures</caption>\n${figureRows(keyFigures(column, profile))}\n</table>`,
-    topLevelsTable(column.topLevels, profile.target),
+    topLevelsTable(column.topLevels, profile.target?.kind === "multiclass" ? undefined : profile.target),
     `</div>`,
     await columnCharts(column, profile),
+    ...classTables(column, 10).map((t) => `<table class="evidence"><caption>${h(t.title)}</caption>\n${headRow(t.header)}\n<tbody>\n`
+      + `${t.rows.map((r) => `<tr>${r.map((c, j) => `<td${j > 0 ? ' class="num"' : ""}>${h(c)}</td>`).join("")}</tr>`).join("\n")}\n</tbody></table>${t.note ? `\n<p class="note">${h(t.note)}</p>` : ""}`),
     await evidenceSection(column),
     structureSection(column),
   ];

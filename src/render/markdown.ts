@@ -4,6 +4,7 @@
  * string from the data is escaped (see escape.ts), so level values cannot break tables or inject
  * markup. The output depends on the profile only: the same profile gives the same bytes.
  */
+import { classTables } from "./classFigures.js";
 import type { ColumnProfile, LevelFigure, Profile, ProfileTarget } from "../profile/types.js";
 import { escapeMarkdownCell, escapeMarkdownText } from "./escape.js";
 import { formatCompact, formatCount, formatShare } from "./format.js";
@@ -103,8 +104,9 @@ function columnSection(column: ColumnProfile, index: number, profile: Profile): 
   }
   if (column.topLevels.length > 0) {
     const more = column.topLevels.length > TOP_LEVELS_SHOWN ? ` (first ${TOP_LEVELS_SHOWN} of ${column.topLevels.length})` : "";
-    out.push(`**Top levels**${more}`, "", ...topLevelsTable(column.topLevels, profile.target), "");
+    out.push(`**Top levels**${more}`, "", ...topLevelsTable(column.topLevels, profile.target?.kind === "multiclass" ? undefined : profile.target), "");
   }
+  for (const t of classTables(column, TOP_LEVELS_SHOWN)) out.push(`**${t.title}**`, "", ...table(t.header, t.rows), "", ...(t.note ? [escapeMarkdownText(t.note), ""] : []));
   out.push(...evidenceSection(column), ...structureSection(column));
   out.push("**Reasons**", "", ...(rec.reasons.length > 0 ? bullets(rec.reasons) : ["- none given"]), "");
   if (rec.cautions && rec.cautions.length > 0) out.push("**Cautions**", "", ...bullets(rec.cautions), "");

@@ -15,6 +15,7 @@ function keyParams(c: ColumnProfile): string {
     case "pooled-one-hot": return `${Array.isArray(rec.params.keep) ? rec.params.keep.length : 0}+other, pooled ${formatShare(rec.params.pooledRowShare)}`;
     case "target-kfold": {
       const p = rec.params;
+      if ("classes" in p && Array.isArray(p.classes)) return `${p.classes.length} classes, K=${String(p.folds ?? "")}`;
       const how = p.grouping === "backoff" ? `backoff ${formatCount(p.groups)} groups, ` : p.prior === "hierarchical" ? "hierarchical, " : "";
       return `${how}m=${p.weight === null ? "∞" : formatNumber(p.weight, 1)}, K=${String(p.folds ?? "")}`;
     }
@@ -38,6 +39,9 @@ export function renderTable(profile: Profile): string {
   const placeholders = profile.columns.some((c) => c.placeholders !== undefined);
   const head = ["column", "role", "distinct", "missing", ...(placeholders ? ["missing-like"] : []), "top-1", "95% levels", "unseen", ...(withTarget ? ["top rates", "m", "AUC in/oof"] : []), "advice", "params"];
   if (withTarget && profile.target?.kind === "continuous") head[head.indexOf("AUC in/oof")] = "R² in/oof";
+  // a multi-class target: m per class (in class order) and the multi-class log loss of the class shares / target encoding
+  const multiclass = profile.target?.kind === "multiclass";
+  if (multiclass) head.splice(head.indexOf("top rates"), 3, "m per class", "log loss shares/enc");
   // --time: forward figures beside (unseen: Good–Turing / forward share; leakage: in / oof / forward)
   const forward = profile.settings.fold?.kind === "time-blocks";
   if (forward) {
@@ -56,7 +60,11 @@ export function renderTable(profile: Profile): string {
       measured ? formatCount(c.coverage.find((x) => x.share === 0.95)?.levels ?? 0) : "",
       measured ? formatShare(c.unseenRate, 2) + (forward && c.forwardUnseen ? `/${formatShare(c.forwardUnseen.mean, 2)}` : "") : "",
     ];
-    if (withTarget) {
+    if (multiclass) {
+      const e = c.multiclassEvidence;
+      row.push(c.classes ? c.classes.map((k) => (k.target.prior.weight === null ? "∞" : formatNumber(k.target.prior.weight, 1))).join("/") : "",
+        e ? `${formatNumber(e.candidates[0]?.loss, 3)}/${formatNumber(e.candidates[1]?.loss, 3)}` : "");
+    } else if (withTarget) {
       const t = c.target;
       row.push(rateRange(c), t ? (t.prior.weight === null ? "none" : formatNumber(t.prior.weight, 1)) : "",
         t ? `${formatNumber(t.leakage.inSample, 3)}/${formatNumber(t.leakage.outOfFold, 3)}${forward ? `/${formatNumber(t.leakage.forward, 3)}` : ""}` : "");
@@ -66,7 +74,8 @@ export function renderTable(profile: Profile): string {
   }
   const t = profile.target;
   const header = `${formatCount(profile.input.rows)} rows, ${profile.columns.length} columns` +
-    (t ? `; target '${t.column}' (${t.kind}, mean ${formatNumber(t.mean, 4)}, ${formatCount(t.missing)} missing)` : "") +
+    (t?.kind === "multiclass" ? `; target '${t.column}' (multiclass: ${t.classes.map((k) => `${k.value} ${formatShare(k.share)}`).join(", ")}; ${formatCount(t.missing)} missing)`
+      : t ? `; target '${t.column}' (${t.kind}, mean ${formatNumber(t.mean, 4)}, ${formatCount(t.missing)} missing)` : "") +
     `; ${profile.settings.folds} folds, seed ${profile.settings.seed}` +
     (profile.settings.fold?.kind === "grouped" ? ` (grouped by ${profile.settings.fold.keyColumns.join(", ")})` : "") +
     (profile.settings.fold?.kind === "time-blocks" ? ` (time-ordered blocks by ${profile.settings.fold.timeColumn})` : "");

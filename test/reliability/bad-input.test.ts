@@ -181,8 +181,11 @@ describe("targets (see test/scan/target.test.ts for the figures)", () => {
   it("a single target value: exit 2", async () => {
     await fails(["scan", writeFile(dir, "y-single.csv", "clinic,y\nNorth,1\nSouth,1\n"), "--target", "y"], "target_single_value", /single value/);
   });
-  it("three text target values: exit 2 asking for --positive", async () => {
-    await fails(["scan", writeFile(dir, "y-text.csv", "clinic,y\nNorth,cat\nSouth,dog\nNorth,cow\n"), "--target", "y"], "target_needs_positive", /--positive/);
+  it("two text target values: exit 2 asking for --positive", async () => {
+    await fails(["scan", writeFile(dir, "y-text2.csv", "clinic,y\nNorth,cat\nSouth,dog\nNorth,cat\n"), "--target", "y"], "target_needs_positive", /--positive/);
+  });
+  it("three text target values over --max-classes: exit 2 saying what to do (three or more are multi-class, test/scan/multiclass.test.ts)", async () => {
+    await fails(["scan", writeFile(dir, "y-text.csv", "clinic,y\nNorth,cat\nSouth,dog\nNorth,cow\n"), "--target", "y", "--max-classes", "2"], "target_too_many_classes", /more than 2 distinct values; name one class with --positive VALUE, or raise --max-classes/);
   });
 });
 

@@ -160,7 +160,8 @@ describe("target problems are exit-2 errors with one line", () => {
   it.each([
     ["missing target column", base, { target: "nope" }, /column 'nope' not found/],
     ["single-valued target", "id,grp,y\n1,a,1\n2,b,1\n", { target: "y" }, /single value/],
-    ["text target without --positive", "id,grp,y\n1,a,cat\n2,b,dog\n3,c,cow\n", { target: "y" }, /--positive/],
+    ["two-valued text target without --positive", "id,grp,y\n1,a,cat\n2,b,dog\n3,c,cat\n", { target: "y" }, /--positive/],
+    ["three text values over --max-classes (else multi-class: test/scan/multiclass.test.ts)", "id,grp,y\n1,a,cat\n2,b,dog\n3,c,cow\n", { target: "y", maxClasses: 2 }, /more than 2 distinct values; name one class with --positive VALUE, or raise --max-classes/],
     ["non-numeric continuous target", "id,grp,y\n1,a,1.5\n2,b,x\n3,c,2\n", { target: "y", targetKind: "continuous" as const }, /not numeric/],
   ])("%s", async (_name, csv, options, message) => {
     const file = writeFile(dir, `bad-${Math.random().toString(36).slice(2)}.csv`, csv);

@@ -26,18 +26,25 @@ import { INPUT_LEVELS, PLAN_LEVELS } from "../levelTables.js";
 import { foldFile, mainFile } from "../mappingFiles.js";
 import { foldPriorVar, fullTable, fullTargetMap, inputMeanSql, mapTable, outOfFoldMap, priorVar, sqlDouble } from "../targetMaps.js";
 import type { EncodingSpec } from "../types.js";
+import { targetClasses, type ClassesSpec } from "./targetClasses.js";
 
 type Spec = Extract<EncodingSpec, { encoding: "target-kfold" }>;
+type Column = Parameters<EncodingModule<Spec>["outputNames"]>[0];
+/** A multi-class target's column: its own module (encode/encodings/targetClasses). */
+const classesOf = (c: Column) => (c.spec.classes ? c as unknown as Parameters<typeof targetClasses.outputNames>[0] : null);
+const isClasses = (s: Spec): s is ClassesSpec => s.classes !== undefined;
 
 export const targetKfold: EncodingModule<Spec> = {
-  outputNames: (c) => [c.name],
-  outputHolds: () => [{}],
+  outputNames: (c) => { const m = classesOf(c); return m ? targetClasses.outputNames(m) : [c.name]; },
+  outputHolds: (c) => { const m = classesOf(c); return m ? targetClasses.outputHolds(m) : [{}]; },
   outputType: "DOUBLE",
 
   async buildMap(engine, column, ctx) {
+    const multi = classesOf(column);
+    if (multi) return targetClasses.buildMap(engine, multi, ctx);
     const { index: i, name, spec } = column;
     if (spec.structure) return buildHierarchyMap(engine, column, spec.structure, ctx);
-    const m = spec.weight;
+    const m = spec.weight ?? null; // (undefined only for the classes form, handled above)
     if (ctx.mode === "scoring") {
       if (ctx.targetMean === undefined) throw new Error("target encoding without a plan target");
       await fullTargetMap(engine, i, PLAN_LEVELS, name, m, sqlDouble(ctx.targetMean));
@@ -52,11 +59,13 @@ export const targetKfold: EncodingModule<Spec> = {
   },
 
   columnSql(column, ctx) {
+    const multi = classesOf(column);
+    if (multi) return targetClasses.columnSql(multi, ctx);
     const look = lookupOf(column, ctx);
     const p = variableSql(priorVar(column.index));
     if (ctx.mode === "scoring") return [`coalesce(${look.value("value")}, ${p})`];
     if (!ctx.leaveOneOut) return [`coalesce(${look.value("value")}, ${variableSql(foldPriorVar(column.index))}[${ref(FOLD_FIELD)} + 1])`];
-    if (column.spec.structure) throw new Error(`column '${column.name}' has no leave-one-out form`);
+    if (column.spec.structure || column.spec.weight === undefined) throw new Error(`column '${column.name}' has no leave-one-out form`);
     if (column.spec.weight === null) return [p]; // m = ∞ (no detectable spread): every row takes the prior
     const n = `${look.value("n_y")}::DOUBLE`;
     const s = look.value("sum_y");
@@ -69,6 +78,7 @@ export const targetKfold: EncodingModule<Spec> = {
   },
 
   fallbackCondition(spec, mode, leaveOneOut) {
+    if (isClasses(spec)) return targetClasses.fallbackCondition(spec, mode, leaveOneOut);
     if (spec.structure) return hierarchyFallbackCondition(spec.structure, mode);
     if (spec.weight === null) return "l.level IS NOT NULL"; // m = ∞: every level gets the prior
     if (mode === "scoring") return "l.level IS NOT NULL AND m.level IS NULL";
@@ -77,13 +87,16 @@ export const targetKfold: EncodingModule<Spec> = {
   },
 
   fallbackRule(spec, mode, leaveOneOut) {
+    if (isClasses(spec)) return targetClasses.fallbackRule(spec, mode, leaveOneOut);
     if (spec.structure) return hierarchyFallbackRule(spec.structure, mode);
     if (mode === "scoring") return "missing and unseen → prior mean p";
     if (leaveOneOut) return "missing and levels with n − 1 + m ≤ 0 → p";
     return "missing, or no target rows of the level in other folds → other folds' mean";
   },
 
-  async manifestParams(engine, column, _outputs, mode, leaveOneOut) {
+  async manifestParams(engine, column, outputs, mode, leaveOneOut) {
+    const multi = classesOf(column);
+    if (multi) return targetClasses.manifestParams(engine, multi, outputs, mode, leaveOneOut);
     const { spec } = column;
     const p = await readVariable<number>(engine, priorVar(column.index));
     if (spec.structure) {
