@@ -10,6 +10,8 @@ import { withEngine } from "../engine/db.js";
 import { planMissingLike } from "../engine/missingLike.js";
 import { TailsiftError } from "../errors.js";
 import { readPlan } from "../plan/load.js";
+import type { TargetSpec } from "../engine/target.js";
+import type { Profile } from "../profile/types.js";
 import { dialectOf, type DialectName } from "./dialects.js";
 import { scoringItems } from "./planMaps.js";
 import { DEFAULT_INLINE_MAX, scoringSql, type MappingTable } from "./scoringSql.js";
@@ -44,6 +46,13 @@ function writeMappingFiles(dir: string, tables: readonly MappingTable[]): void {
   }
 }
 
+/** The plan's target as the scoring SQL reads it (a multi-class target: its column and kind; its classes are labels). */
+function targetOfPlan(t: Profile["target"]): TargetSpec | undefined {
+  if (t === undefined) return undefined;
+  if (t.kind === "multiclass") return { column: t.column, kind: "multiclass", classes: t.classes.map((c) => c.value) };
+  return t;
+}
+
 /** The scoring SQL (ends with a newline) and the tables the user loads. */
 export async function scoringQuery(o: ScoringQueryOptions): Promise<{ sql: string; tables: MappingTable[] }> {
   const inlineMax = o.inlineMax ?? DEFAULT_INLINE_MAX;
@@ -51,7 +60,7 @@ export async function scoringQuery(o: ScoringQueryOptions): Promise<{ sql: strin
   const { levelsPath, profile } = readPlan(o.plan, "sql", true);
   const items = await withEngine({ threads: 1, lockToPaths: [path.dirname(path.resolve(levelsPath))] }, (engine) => scoringItems(engine, profile, levelsPath));
   const missingLike = planMissingLike(profile.settings.missingLike, undefined, false);
-  const result = scoringSql(items, { from: o.from, dialect: dialectOf(o.dialect), inlineMax, missingLike, rawNames: o.rawNames ?? false, target: profile.target });
+  const result = scoringSql(items, { from: o.from, dialect: dialectOf(o.dialect), inlineMax, missingLike, rawNames: o.rawNames ?? false, target: targetOfPlan(profile.target) });
   if (result.tables.length > 0) {
     if (o.mappingsOut === undefined) {
       const t = result.tables[0]!;

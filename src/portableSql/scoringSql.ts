@@ -98,7 +98,10 @@ function encodedSql(d: Dialect, sc: ScoringColumn, tables: readonly MappingTable
 /** A passed-through column as encode writes it: its expression, already of the output type `type`. */
 function passedSql(d: Dialect, column: string, type: PassType, sqlType: OutputSqlType, o: ScoringSqlOptions): string {
   const text = missingLikeSql(d.toText(`s.${d.ident(column)}`), o.missingLike ?? [], d);
-  if (type === "target" && o.target !== undefined) return targetFromText(d, text, o.target.kind, o.target.positive, sqlType === "INTEGER" ? "INTEGER" : "DOUBLE");
+  // a multi-class target passes through as its trimmed class label, as encode writes it
+  const target = o.target;
+  if (type === "target" && target?.kind === "multiclass") return d.trim(text);
+  if (type === "target" && target !== undefined && target.kind !== "multiclass") return targetFromText(d, text, target.kind, target.positive, sqlType === "INTEGER" ? "INTEGER" : "DOUBLE");
   return sqlType === "VARCHAR" ? text : d.parseNumber(text, sqlType);
 }
 
