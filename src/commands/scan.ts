@@ -64,8 +64,6 @@ export async function scan(inputs: readonly string[], options: ScanOptions = {})
   validatePolicy(policy);
   return withEngine(options, async (engine) => {
     options.onEngine?.(engine);
-    // the level table need not keep row order; letting DuckDB drop it makes the pass ~30 % faster
-    await engine.run("SET preserve_insertion_order = false", "configuring the engine");
     try {
       return await scanWith(engine, inputs, options, policy);
     } finally {
@@ -107,6 +105,9 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
     }
   }
 
+  // the level table need not keep row order; letting DuckDB drop it makes the pass ~30 % faster.
+  // Only from here: the samples above read the FIRST rows (LIMIT), which without order are any rows
+  await engine.run("SET preserve_insertion_order = false", "configuring the engine");
   const totals = await buildLevelTable(engine, {
     view: source.view, levelColumns, countColumns: [...numeric, ...time], timeColumns: time, distinctColumns: distinct, target: targetSpec, fold, contentColumns: source.columns,
   },
