@@ -70,7 +70,7 @@ export function buildProgram(io: CliIO): Command {
   });
 
   program.command("report")
-    .description("render a saved profile.json again as report.html (and decisions.md beside it), without rescanning")
+    .description("render a saved profile.json again as report.html, without rescanning")
     .argument("<profile>", "a profile.json written by scan --out")
     .requiredOption("--out <file>", "the HTML file to write")
     .option("--debug", "print the stack trace of an error")
