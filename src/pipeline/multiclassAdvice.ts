@@ -16,6 +16,7 @@ import { multiclassFoldLosses } from "../engine/multiclassLoss.js";
 import { foldLoss } from "../evidence/foldLoss.js";
 import { gainText } from "../evidence/margin.js";
 import { fmt } from "../evidence/oneSe.js";
+import { stepMean } from "../stats/stepMean.js";
 import type { ColumnProfile, Encoding, MulticlassEvidence, MulticlassTarget, Recommendation } from "../profile/types.js";
 
 /** The advice without a target that the multi-class evidence may replace. */
@@ -28,31 +29,41 @@ export async function multiclassEvidence(engine: Engine, levelColumns: readonly 
     const column = columns.find((c) => c.name === name);
     if (column?.role === "categorical" && column.classes) weights.set(col, column.classes.map((k) => k.target.prior.weight));
   });
-  const losses = await multiclassFoldLosses(engine, target.classes.length, weights);
+  // --time: both fitted on the earlier blocks and scored forward, the mean over the steps (as evidence/forward)
+  const forward = policy.forward === true;
+  const losses = await multiclassFoldLosses(engine, target.classes.length, weights, undefined, forward);
+  const summary = forward ? forwardLoss : foldLoss;
   const out = new Map<string, MulticlassEvidence>();
   for (const col of weights.keys()) {
     const folds = losses.filter((l) => l.col === col);
-    const shares = foldLoss(folds.map((f) => ({ fold: f.fold, rows: f.rows, loss: f.shares })));
-    const encoded = foldLoss(folds.map((f) => ({ fold: f.fold, rows: f.rows, loss: f.encoded })));
+    const shares = summary(folds.map((f) => ({ fold: f.fold, rows: f.rows, loss: f.shares })));
+    const encoded = summary(folds.map((f) => ({ fold: f.fold, rows: f.rows, loss: f.encoded })));
     if (!shares || !encoded) continue;
-    out.set(levelColumns[col]!, decide(shares, encoded, folds.reduce((s, f) => s + f.rows, 0), policy));
+    out.set(levelColumns[col]!, decide(shares, encoded, folds.reduce((s, f) => s + f.rows, 0), policy, forward));
   }
   return out;
 }
 
-function decide(shares: NonNullable<ReturnType<typeof foldLoss>>, encoded: NonNullable<ReturnType<typeof foldLoss>>, rows: number, policy: AdvicePolicy): MulticlassEvidence {
+/** Forward steps: the mean of the steps' per-row losses with its SE (stats/stepMean, as evidence/forward). */
+function forwardLoss(steps: readonly { fold: number; rows: number; loss: number }[]): ReturnType<typeof foldLoss> {
+  const foldLosses = steps.filter((f) => f.rows > 0).map((f) => f.loss / f.rows);
+  const m = stepMean(foldLosses);
+  return m && { loss: m.mean, se: m.se, foldLosses };
+}
+
+function decide(shares: NonNullable<ReturnType<typeof foldLoss>>, encoded: NonNullable<ReturnType<typeof foldLoss>>, rows: number, policy: AdvicePolicy, forward: boolean): MulticlassEvidence {
   const gain = shares.loss > 0 ? (shares.loss - encoded.loss) / shares.loss : 0;
   const se = encoded.se ?? 0;
   const beats = encoded.loss + se < shares.loss;
   const chosen = beats && gain >= policy.minGain ? "target-kfold" : "class-shares";
-  const figures = `one-vs-rest target encoding: out-of-fold multi-class log loss ${fmt(encoded.loss, 5)} ± ${fmt(encoded.se, 2)} SE against ${fmt(shares.loss, 5)} for the class shares (the column unused)`;
+  const figures = `one-vs-rest target encoding: ${forward ? `forward multi-class log loss (fitted on earlier time blocks, mean over ${encoded.foldLosses.length} steps)` : "out-of-fold multi-class log loss"} ${fmt(encoded.loss, 5)} ± ${fmt(encoded.se, 2)} SE against ${fmt(shares.loss, 5)} for the class shares (the column unused)`;
   const reason = chosen === "target-kfold"
     ? `${figures}: it beats them by more than one standard error and saves ${gainText(gain)}, at least the practical margin of ${gainText(policy.minGain)} (--min-gain ${policy.minGain}).`
     : beats
       ? `${figures}: it saves only ${gainText(gain)}, below the practical margin of ${gainText(policy.minGain)} (--min-gain ${policy.minGain}).`
       : `${figures}: it does not beat them by more than one standard error.`;
   return {
-    metric: "multiclass-log-loss", folds: shares.foldLosses.length, rows,
+    metric: "multiclass-log-loss", folds: shares.foldLosses.length, rows, ...(forward ? { validation: "forward" as const } : {}),
     candidates: [{ candidate: "class-shares", ...shares }, { candidate: "target-kfold", ...encoded }],
     chosen, reason,
   };

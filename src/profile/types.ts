@@ -128,7 +128,9 @@ export interface ClassFigures {
 /** A multi-class target: the column scored by the out-of-fold multi-class log loss (engine/multiclassLoss). */
 export interface MulticlassEvidence {
   metric: "multiclass-log-loss";
+  /** Folds scored (k-fold), or with validation "forward" the forward steps (--time: blocks 1..K−1). */
   folds: number;
+  validation?: "forward";
   rows: number;
   candidates: { candidate: "class-shares" | "target-kfold"; loss: number; se: number | null; foldLosses: number[] }[];
   chosen: "class-shares" | "target-kfold";

@@ -45,7 +45,9 @@ export function multiclassEvidenceTable(column: ColumnProfile): FigureTable | nu
   if (!e) return null;
   const label = { "class-shares": "class shares (column unused)", "target-kfold": "target encoding, one class against the rest" };
   return {
-    title: `Out-of-fold multi-class log loss (${e.folds} folds, ${formatCount(e.rows)} rows)`,
+    title: e.validation === "forward"
+      ? `Forward multi-class log loss (${e.folds} steps over time blocks, ${formatCount(e.rows)} rows scored)`
+      : `Out-of-fold multi-class log loss (${e.folds} folds, ${formatCount(e.rows)} rows)`,
     header: ["candidate", "log loss", "± SE", ""],
     rows: e.candidates.map((c) => [label[c.candidate], formatNumber(c.loss, 5), formatNumber(c.se, 5), c.candidate === e.chosen ? "chosen" : ""]),
     note: e.reason,

@@ -134,6 +134,26 @@ describe("multi-class target × --time (time-ordered blocks)", () => {
     const overall = shares(input.filter((o) => o.cls >= 0));
     const expected = input.map((row, i) => classValues(row, input.filter((_, j) => block[j]! < block[i]!), plan.weights, overall));
     expectValues(csv, expected);
+    // the multi-class evidence is scored forward with these same past-only predictions: per block
+    // b ≥ 1 the mean over its rows with a target of −ln q(true class), then the mean over the steps
+    const stepLoss = (predict: (i: number) => number[]) => Array.from({ length: K - 1 }, (_, s) => s + 1).map((b) => {
+      const scored = input.map((o, i) => ({ o, i })).filter(({ o, i }) => block[i] === b && o.cls >= 0);
+      return scored.reduce((t, { o, i }) => t - Math.log(Math.min(1 - 1e-15, Math.max(1e-15, predict(i)[o.cls]!))), 0) / scored.length;
+    });
+    const mean = (xs: number[]) => xs.reduce((a, b) => a + b, 0) / xs.length;
+    const encodedSteps = stepLoss((i) => expected[i]!);
+    const sharesSteps = stepLoss((i) => shares(input.filter((o, j) => block[j]! < block[i]! && o.cls >= 0)));
+    const evidence = plan.profile.columns.find((c) => c.name === "clinic")!.multiclassEvidence!;
+    expect(evidence.validation).toBe("forward");
+    expect(evidence.folds).toBe(K - 1);
+    const byName = new Map(evidence.candidates.map((c) => [c.candidate, c]));
+    expect(byName.get("target-kfold")!.foldLosses.length).toBe(K - 1);
+    byName.get("target-kfold")!.foldLosses.forEach((l, s) => expect(l).toBeCloseTo(encodedSteps[s]!, 10));
+    byName.get("class-shares")!.foldLosses.forEach((l, s) => expect(l).toBeCloseTo(sharesSteps[s]!, 10));
+    expect(byName.get("target-kfold")!.loss).toBeCloseTo(mean(encodedSteps), 10);
+    expect(byName.get("class-shares")!.loss).toBeCloseTo(mean(sharesSteps), 10);
+    expect(evidence.reason).toMatch(/forward multi-class log loss \(fitted on earlier time blocks, mean over 3 steps\)/);
+    expect(markdown).toContain("Forward multi-class log loss (3 steps over time blocks");
     // block 0 has no past: every block-0 row carries the input's overall class shares
     const first = csv.rows.map((_, i) => i).filter((i) => block[i] === 0);
     for (const [k, c] of CLASSES.entries()) {
