@@ -134,7 +134,7 @@ const foldManifest = (column: string, f: FoldContract) =>
   ({ column, k: f.k, seed: f.seed, hash: f.hash, identityColumns: f.keyColumns, ...(f.kind === "grouped" ? { kind: "grouped" } : {}),
     ...(f.kind === "time-blocks" ? {
       kind: "time-blocks", timeColumn: f.timeColumn, boundaries: f.boundaries,
-      encodings: "past-only: a row of time block b is target-encoded from the rows of blocks 0..b-1 only (their sums and their mean as the prior); block 0 has no earlier rows and takes the prior (the input's overall target mean); a missing value takes the earlier blocks' mean",
+      encodings: "past-only: a row of time block b is target-encoded from the rows of blocks 0..b-1 only (their sums and their mean as the prior); block 0 has no earlier rows and takes the prior (the input's overall target mean; for a multi-class target, its class shares); a missing value takes the earlier blocks' mean (class shares)",
     } : {}) });
 
 function manifest(ctx: WriteContext, entries: Record<string, unknown>[], outputs: readonly OutputColumn[], guard: boolean): Record<string, unknown> {
