@@ -14,21 +14,12 @@
  *   node sample-data/visit-outcomes.mjs --rows N --seed S --out FILE.csv
  *
  * Also imported by the tests (test/fixtures/visitOutcomes.ts). Plain Node ESM, no dependencies.
- * Randomness: mulberry32, a small seeded PRNG (common practice for reproducible test data).
+ * Randomness: mulberry32 (sample-data/random.mjs).
  */
 import fs from "node:fs";
 import { pathToFileURL } from "node:url";
+import { mulberry32 } from "./random.mjs";
 
-function mulberry32(seed) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const SPECIES = ["dog", "cat", "rabbit", "bird"];
 /** Channel: [weight, no-show log-odds, late-cancel log-odds] against attending. */

@@ -24,14 +24,5 @@ export function collector() {
   };
 }
 
-/** A small seeded PRNG (mulberry32 — common practice for reproducible test data). */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** A small seeded PRNG (mulberry32, common practice for reproducible test data), shared with the generators. */
+export { mulberry32 } from "../../sample-data/random.mjs";
