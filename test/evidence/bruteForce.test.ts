@@ -13,7 +13,7 @@ import { hierarchyFor } from "../../src/hierarchy/hierarchyFor.js";
 import type { ParentSpec } from "../../src/hierarchy/types.js";
 import { mulberry32, tempDir, writeFile } from "../helpers/tmp.js";
 import { backoffGroups, counts } from "../hierarchy/plain.js";
-import { csv, rowsWithFolds, withLevelTable } from "./helpers.js";
+import { codedRow, csv, rowsWithFolds, withLevelTable } from "./helpers.js";
 import { fitGroups, groupedOof, hierarchicalOof, scoreRows, sums, type Row } from "./plainOof.js";
 
 const dir = tempDir("evidence-bf");
@@ -23,12 +23,7 @@ afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 // 15 rows with the code missing, 12 rows with the target missing.
 const rand = mulberry32(17);
 const data = Array.from({ length: 420 }, (_, i) => {
-  const big = rand() < 0.3;
-  const parent = 10 + Math.floor(rand() * 8);
-  const leaf = Math.floor(rand() * 20);
-  const code = i < 15 ? "" : big ? `99${String(Math.floor(rand() * 3))}0` : `${parent}${String(leaf).padStart(2, "0")}`;
-  const rate = big ? 0.5 : 0.05 + 0.06 * (parent - 10) + (leaf % 4 === 0 ? 0.4 : 0);
-  const y = i % 35 === 7 ? "" : rand() < rate ? 1 : 0;
+  const { code, y, parent, leaf } = codedRow(rand, i);
   const amount = i % 35 === 7 ? "" : (20 * (parent - 10) + (leaf % 4 === 0 ? 60 : 0) + 30 * rand()).toFixed(2);
   return [i, code, y, amount];
 });

@@ -23,22 +23,17 @@ import { hierarchyFor } from "../../src/hierarchy/hierarchyFor.js";
 import type { ParentSpec } from "../../src/hierarchy/types.js";
 import { mulberry32, tempDir, writeFile } from "../helpers/tmp.js";
 import { backoffGroups, counts } from "../hierarchy/plain.js";
-import { csv } from "./helpers.js";
+import { codedRow, csv } from "./helpers.js";
 import { fitGroups, groupedOof, hierarchicalOof, scoreRows, sums, type Row } from "./plainOof.js";
 
 const dir = tempDir("fwd-hier");
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 const K = 4;
 
-// as bruteForce.test.ts (seed 17), plus a visit time: row i at hour i of 2025
+// the coded rows of bruteForce.test.ts (helpers codedRow, seed 17), plus a visit time: row i at hour i of 2025
 const rand = mulberry32(17);
 const data = Array.from({ length: 420 }, (_, i) => {
-  const big = rand() < 0.3;
-  const parent = 10 + Math.floor(rand() * 8);
-  const leaf = Math.floor(rand() * 20);
-  const code = i < 15 ? "" : big ? `99${String(Math.floor(rand() * 3))}0` : `${parent}${String(leaf).padStart(2, "0")}`;
-  const rate = big ? 0.5 : 0.05 + 0.06 * (parent - 10) + (leaf % 4 === 0 ? 0.4 : 0);
-  const y = i % 35 === 7 ? "" : rand() < rate ? 1 : 0;
+  const { code, y } = codedRow(rand, i);
   const time = new Date(Date.UTC(2025, 0, 1) + i * 3_600_000).toISOString().slice(0, 16).replace("T", " ");
   return [i, time, code, y];
 });

@@ -38,3 +38,19 @@ export async function rowsWithFolds(engine: Engine, file: string, columns: strin
 export function csv(header: string[], rows: (string | number)[][]): string {
   return `${[header.join(","), ...rows.map((r) => r.join(","))].join("\n")}\n`;
 }
+
+/**
+ * One row of the coded extract of the brute-force evidence tests (bruteForce, forwardHierarchy):
+ * ~30 % of rows in three big codes ("99x0", rate ½), the rest 4-digit codes under 8 two-digit
+ * parents whose rate rises with the parent (and by 0.4 for every fourth leaf); rows 0–14 have
+ * the code missing, every 35th row (from 7) the target. Draws from `rand` in a fixed order.
+ */
+export function codedRow(rand: () => number, i: number): { code: string; y: number | ""; parent: number; leaf: number } {
+  const big = rand() < 0.3;
+  const parent = 10 + Math.floor(rand() * 8);
+  const leaf = Math.floor(rand() * 20);
+  const code = i < 15 ? "" : big ? `99${String(Math.floor(rand() * 3))}0` : `${parent}${String(leaf).padStart(2, "0")}`;
+  const rate = big ? 0.5 : 0.05 + 0.06 * (parent - 10) + (leaf % 4 === 0 ? 0.4 : 0);
+  const y = i % 35 === 7 ? "" : rand() < rate ? 1 : 0;
+  return { code, y, parent, leaf };
+}
