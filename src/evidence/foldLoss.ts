@@ -4,6 +4,7 @@
  * the spread that the one-standard-error rule compares against (Hastie, Tibshirani & Friedman,
  * The Elements of Statistical Learning, 2nd ed., §7.10, for K-fold cross-validation).
  */
+import { stepMean } from "../stats/stepMean.js";
 
 export interface FoldSums { fold: number; rows: number; loss: number }
 
@@ -20,9 +21,6 @@ export function foldLoss(folds: readonly FoldSums[]): { loss: number; se: number
   const rows = used.reduce((s, f) => s + f.rows, 0);
   const loss = used.reduce((s, f) => s + f.loss, 0) / rows;
   const foldLosses = used.map((f) => f.loss / f.rows);
-  const k = foldLosses.length;
-  if (k < 2) return { loss, se: null, foldLosses };
-  const mean = foldLosses.reduce((s, x) => s + x, 0) / k;
-  const variance = foldLosses.reduce((s, x) => s + (x - mean) ** 2, 0) / (k - 1);
-  return { loss, se: Math.sqrt(variance / k), foldLosses };
+  // the standard error of the per-fold losses' mean (the same s/√K as a forward evaluation's steps)
+  return { loss, se: stepMean(foldLosses)?.se ?? null, foldLosses };
 }
