@@ -53,3 +53,10 @@ export function logLossSql(pos: string, neg: string, pred: string): string {
   const p = `greatest(${LOG_LOSS_EPS}, least(1 - ${LOG_LOSS_EPS}, ${pred}))`;
   return `-(${pos} * ln(${p}) + ${neg} * ln(1 - ${p}))`;
 }
+
+/**
+ * A window frame over the folds in time order that stops before the current one: with --time
+ * (time-blocks folds) the sums "of the earlier blocks" of a forward step. Used as
+ * `sum(x) OVER (PARTITION BY … ${EARLIER_FOLDS})`.
+ */
+export const EARLIER_FOLDS = "ORDER BY fold ROWS BETWEEN UNBOUNDED PRECEDING AND 1 PRECEDING";

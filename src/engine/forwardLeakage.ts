@@ -9,24 +9,22 @@
  * continuous: SSE and SST of the scored rows. Only per-column sums cross into JavaScript.
  */
 import type { Engine } from "./db.js";
-import { mannWhitneyUSql, mEstimateSql } from "./formulaSql.js";
+import { EARLIER_FOLDS, mannWhitneyUSql, mEstimateSql } from "./formulaSql.js";
 import { LEVEL_TABLE } from "./passPlan.js";
 import { sqlNumber } from "./sql.js";
 import type { TargetKind } from "./target.js";
 
 export interface ForwardLeakageSums { col: number; u: number; positives: number; negatives: number; sse: number; sst: number; rows: number }
 
-const EARLIER = "ORDER BY fold ROWS BETWEEN UNBOUNDED PRECEDING AND 1 PRECEDING";
-
 function scoredSql(weights: ReadonlyMap<number, number | null>): string {
   const values = [...weights].map(([col, m]) => `(${sqlNumber(col)}, ${m === null ? "NULL" : sqlNumber(m)}::DOUBLE)`).join(", ");
   return `w(col, m) AS (VALUES ${values}),
   ft AS (SELECT fold, sum(n_y)::DOUBLE AS fn, sum(sum_y)::DOUBLE AS fs FROM ${LEVEL_TABLE} WHERE col = -1 GROUP BY fold),
-  fc AS (SELECT fold, sum(fn) OVER (${EARLIER}) AS pn, sum(fs) OVER (${EARLIER}) AS ps FROM ft),
+  fc AS (SELECT fold, sum(fn) OVER (${EARLIER_FOLDS}) AS pn, sum(fs) OVER (${EARLIER_FOLDS}) AS ps FROM ft),
   lv AS (SELECT l.col, l.level, l.fold, sum(l.n_y)::DOUBLE AS n_y, sum(l.sum_y)::DOUBLE AS sum_y, sum(l.sum_y2)::DOUBLE AS sum_y2
          FROM ${LEVEL_TABLE} l JOIN w ON l.col = w.col WHERE l.col >= 0 AND l.n_y > 0 GROUP BY l.col, l.level, l.fold),
-  lc AS (SELECT lv.*, coalesce(sum(n_y) OVER (PARTITION BY col, level ${EARLIER}), 0) AS cn,
-                coalesce(sum(sum_y) OVER (PARTITION BY col, level ${EARLIER}), 0) AS cs FROM lv),
+  lc AS (SELECT lv.*, coalesce(sum(n_y) OVER (PARTITION BY col, level ${EARLIER_FOLDS}), 0) AS cn,
+                coalesce(sum(sum_y) OVER (PARTITION BY col, level ${EARLIER_FOLDS}), 0) AS cs FROM lv),
   scored AS (
     SELECT lc.col, lc.n_y, lc.sum_y, lc.sum_y2,
       CASE WHEN lc.level IS NULL THEN fc.ps / fc.pn ELSE ${mEstimateSql("lc.cs", "lc.cn", "w.m", "fc.ps / fc.pn")} END AS s_fwd

@@ -22,7 +22,7 @@
  */
 import type { Engine } from "./db.js";
 import { LOG_LOSS_EPS } from "../stats/logLossFromGroups.js";
-import { mEstimateSql } from "./formulaSql.js";
+import { EARLIER_FOLDS, mEstimateSql } from "./formulaSql.js";
 import { classSumColumn, LEVEL_TABLE } from "./passPlan.js";
 import { sqlNumber } from "./sql.js";
 
@@ -43,15 +43,14 @@ export function multiclassLossSql(classes: number, weights: ReadonlyMap<number, 
   const pk = ks.map((k) => (forward
     ? mEstimateSql(`lp.ps${k}`, "lp.pn", `mw.m${k}`, `pf.p${k}`)
     : mEstimateSql(`(lt.t${k} - lf.s${k})`, "(lt.tn - lf.n)", `mw.m${k}`, `pf.p${k}`)));
-  const past = "ROWS BETWEEN UNBOUNDED PRECEDING AND 1 PRECEDING";
   const pf = forward
-    ? `pc AS (SELECT fold, sum(fn) OVER (ORDER BY fold ${past}) AS cn, ${ks.map((k) => `sum(f${k}) OVER (ORDER BY fold ${past}) AS c${k}`).join(", ")} FROM ft),
+    ? `pc AS (SELECT fold, sum(fn) OVER (${EARLIER_FOLDS}) AS cn, ${ks.map((k) => `sum(f${k}) OVER (${EARLIER_FOLDS}) AS c${k}`).join(", ")} FROM ft),
   pf AS (SELECT fold, ${ks.map((k) => `c${k} / cn AS p${k}`).join(", ")} FROM pc WHERE cn > 0)`
     : `g AS (SELECT sum(fn) AS gn, ${ks.map((k) => `sum(f${k}) AS g${k}`).join(", ")} FROM ft),
   pf AS (SELECT ft.fold, ${ks.map((k) => `CASE WHEN g.gn - ft.fn > 0 THEN (g.g${k} - ft.f${k}) / (g.gn - ft.fn) ELSE g.g${k} / g.gn END AS p${k}`).join(", ")} FROM ft CROSS JOIN g)`;
   const fitted = forward
     ? `lp AS (SELECT col, level, fold, coalesce(sum(n) OVER v, 0) AS pn, ${ks.map((k) => `coalesce(sum(s${k}) OVER v, 0) AS ps${k}`).join(", ")}
-         FROM lf WINDOW v AS (PARTITION BY col, level ORDER BY fold ${past}))`
+         FROM lf WINDOW v AS (PARTITION BY col, level ${EARLIER_FOLDS}))`
     : `lt AS (SELECT col, level, sum(n) AS tn, ${ks.map((k) => `sum(s${k}) AS t${k}`).join(", ")} FROM lf GROUP BY col, level)`;
   const join = forward
     ? "JOIN lp ON lp.col = lf.col AND lp.level IS NOT DISTINCT FROM lf.level AND lp.fold = lf.fold"
