@@ -110,6 +110,8 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
   await engine.run("SET preserve_insertion_order = false", "configuring the engine");
   const totals = await buildLevelTable(engine, {
     view: source.view, levelColumns, countColumns: [...numeric, ...time], timeColumns: time, distinctColumns: distinct, target: targetSpec, fold, contentColumns: source.columns,
+    // a second read of a column store is cheaper than carrying these sums in every grouping set (engine/passExtras)
+    extras: source.format === "parquet" ? "apart" : "inline",
   },
     `scanning ${source.files.length === 1 ? `'${source.files[0]}'` : `${source.files.length} files`}`);
   if (totals.rows === 0) throw new TailsiftError("empty_input", `${describeFiles(source.files)} has a header but no rows; give a file with rows`);

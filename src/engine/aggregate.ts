@@ -12,6 +12,7 @@ import type { Engine } from "./db.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
 import { readTimeTotals, timeFlagSql, timePassAggregates, timeTotalsSql, timeValueSql, type TimeTotals } from "./timeColumns.js";
 import { buildWideLevelTable, useWidePass } from "./widePass.js";
+import { buildPassExtras, dropPassExtras, extrasApart, totalsRowsSql, withoutExtras } from "./passExtras.js";
 
 export { LEVEL_TABLE, type PassPlan } from "./passPlan.js";
 import { classSumColumn, classSumsSql, DISTINCT_COL_BASE, LEVEL_TABLE, planClasses, rowFieldsSql, type PassPlan } from "./passPlan.js";
@@ -77,9 +78,19 @@ export const PASS_BATCH = 200;
 /** Runs the pass and returns the totals; the level table stays in DuckDB. */
 export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "scanning the input"): Promise<PassTotals> {
   // wide inputs: one unnest pass (engine/widePass) builds the same table; totals are read below
-  if (useWidePass(plan)) await buildWideLevelTable(engine, plan, doing);
-  else await buildGroupingSetsLevelTable(engine, plan, doing);
-  return readPassTotals(engine, plan);
+  if (useWidePass(plan)) {
+    await buildWideLevelTable(engine, plan, doing);
+    return readPassTotals(engine, plan, false);
+  }
+  // numeric, time and content totals: inside the GROUPING SETS pass, or apart (engine/passExtras)
+  const apart = extrasApart(plan);
+  await buildGroupingSetsLevelTable(engine, apart ? withoutExtras(plan) : plan, doing);
+  if (apart) await buildPassExtras(engine, plan, doing);
+  try {
+    return await readPassTotals(engine, plan, apart);
+  } finally {
+    if (apart) await dropPassExtras(engine);
+  }
 }
 
 async function buildGroupingSetsLevelTable(engine: Engine, plan: PassPlan, doing: string): Promise<void> {
@@ -110,7 +121,7 @@ async function readDistinctCounts(engine: Engine, plan: PassPlan): Promise<Map<s
   return distinct;
 }
 
-async function readPassTotals(engine: Engine, plan: PassPlan): Promise<PassTotals> {
+async function readPassTotals(engine: Engine, plan: PassPlan, apart: boolean): Promise<PassTotals> {
   const distinct = await readDistinctCounts(engine, plan);
   const classes = planClasses(plan);
   const counts = classes.map((_, k) => `, sum(${classSumColumn(k)})::DOUBLE AS c${k}`).join("")
@@ -118,7 +129,7 @@ async function readPassTotals(engine: Engine, plan: PassPlan): Promise<PassTotal
     + (plan.contentColumns ? ", sum(__content)::VARCHAR AS content" : "");
   const rows = await engine.rows<Record<string, number>>(
     `SELECT fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, bad::DOUBLE AS bad${counts}
-     FROM ${LEVEL_TABLE} WHERE col = -1 GROUP BY ALL ORDER BY fold`, "reading the pass totals");
+     FROM ${totalsRowsSql(apart)} GROUP BY ALL ORDER BY fold`, "reading the pass totals");
   const foldRows = Array.from({ length: plan.fold.k }, () => 0);
   const totals: PassTotals = { rows: 0, foldRows, targetRows: 0, sumY: 0, sumY2: 0, badTargets: 0, nonMissing: new Map(), time: new Map(), distinct,
     ...(classes.length > 0 ? { classRows: classes.map(() => 0) } : {}) };
@@ -137,7 +148,7 @@ async function readPassTotals(engine: Engine, plan: PassPlan): Promise<PassTotal
   if (times.length > 0) {
     // the time aggregates are combined over folds in SQL (min/max of timestamps, not of text in JS)
     const [all] = await engine.rows<Record<string, unknown>>(
-      `SELECT ${times.map((_, i) => timeTotalsSql(i)).join(", ")} FROM ${LEVEL_TABLE} WHERE col = -1`, "reading the time ranges");
+      `SELECT ${times.map((_, i) => timeTotalsSql(i)).join(", ")} FROM ${totalsRowsSql(apart)}`, "reading the time ranges");
     times.forEach((c, i) => totals.time?.set(c, readTimeTotals(all ?? {}, i)));
   }
   return totals;

@@ -30,6 +30,12 @@ export interface PassPlan {
   fold: FoldContract;
   /** All columns in file order: also compute the content fingerprint (engine/contentFingerprint). */
   contentColumns?: readonly string[];
+  /**
+   * Where the per-fold extras (numeric non-missing counts, time ranges, content hash) are summed:
+   * "inline" in the GROUPING SETS pass (one read), or "apart" in a second statement grouped by fold
+   * only (a second read). Default: apart for Parquet, inline otherwise (engine/passExtras).
+   */
+  extras?: "inline" | "apart";
 }
 
 /**

@@ -1,0 +1,142 @@
+/**
+ * The per-fold extras (non-missing counts of numeric columns, time ranges and granularity, the
+ * content fingerprint) summed apart from the GROUPING SETS pass (engine/passExtras, the default for
+ * Parquet) give exactly what the pass gives with them inline, and what the wide pass gives — on
+ * CSV and Parquet copies of the same rows — and both agree with a brute-force recount of the
+ * generated rows. Through scan, a Parquet profile is the same whichever way the extras are summed.
+ */
+import { spawnSync } from "node:child_process";
+import fs from "node:fs";
+import path from "node:path";
+import { afterAll, describe, expect, it } from "vitest";
+import type { PassPlan } from "../../src/engine/aggregate.js";
+import { contentFingerprintOf } from "../../src/engine/contentFingerprint.js";
+import { withEngine } from "../../src/engine/db.js";
+import { rowHashFolds } from "../../src/engine/folds.js";
+import { extrasApart, PASS_EXTRAS_TABLE } from "../../src/engine/passExtras.js";
+import { openSource } from "../../src/engine/source.js";
+import { quoteLiteral } from "../../src/engine/sql.js";
+import { scan } from "../../src/commands/scan.js";
+import { passIn, type PassMode } from "../helpers/passModes.js";
+import { mulberry32, tempDir, writeFile } from "../helpers/tmp.js";
+
+const dir = tempDir("pass-extras");
+afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+
+/** Invented vet-clinic visits: a visit number, a pet count, a visit time and day, two level columns, a no-show flag with blanks and bad values. */
+function visitsCsv(rows: number, seed: number, badTargets = true): { file: string; raw: string[][]; header: string[] } {
+  const rnd = mulberry32(seed);
+  const header = ["visit_no", "pets", "visit_at", "visit_day", "species", "clinic", "no_show"];
+  const raw: string[][] = [];
+  for (let r = 0; r < rows; r++) {
+    const stamp = `2025-${String(1 + Math.floor(rnd() * 6)).padStart(2, "0")}-${String(1 + Math.floor(rnd() * 28)).padStart(2, "0")}`;
+    const u = rnd();
+    raw.push([
+      String(500_000 + r),
+      rnd() < 0.07 ? "" : String(Math.floor(rnd() * 5)),
+      rnd() < 0.04 ? "" : `${stamp} ${String(8 + Math.floor(rnd() * 9)).padStart(2, "0")}:${String(Math.floor(rnd() * 60)).padStart(2, "0")}:${rnd() < 0.1 ? "30" : "00"}`,
+      stamp,
+      ["cat", "dog", "rabbit", "ferret", ""][Math.floor(rnd() * 5)]!,
+      `C${Math.floor(rnd() * 40)}`,
+      u < 0.04 ? "" : u < 0.07 ? (badTargets ? "unknown" : "") : u < 0.3 ? "1" : "0",
+    ]);
+  }
+  return { file: writeFile(dir, `visits-${seed}-${badTargets}.csv`, `${[header, ...raw].map((l) => l.join(",")).join("\n")}\n`), raw, header };
+}
+
+type Row = { col: number; level: string | null; fold: number; rows: number; n_y: number; sum_y: number; bad: number };
+const COLUMNS = "col, level, fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, bad::DOUBLE AS bad";
+
+describe("pass extras summed apart equal the inline pass and a brute-force recount", () => {
+  const { file: csv, raw, header } = visitsCsv(900, 11);
+  const parquet = path.join(dir, "visits.parquet");
+
+  it.each(["csv", "parquet"] as const)("%s input: apart = inline = wide, and = brute force", async (format) => {
+    await withEngine({ threads: 2 }, async (engine) => {
+      if (format === "parquet" && !fs.existsSync(parquet)) {
+        await engine.run(`COPY (SELECT * FROM read_csv(${quoteLiteral(csv)}, header = true, all_varchar = true)) TO ${quoteLiteral(parquet)} (FORMAT parquet)`, "writing the Parquet copy");
+      }
+      const source = await openSource(engine, [format === "csv" ? csv : parquet]);
+      const plan: PassPlan = {
+        view: source.view, fold: rowHashFolds(source.columns, 5, 42), levelColumns: ["species", "clinic"],
+        countColumns: ["visit_no", "pets", "visit_at", "visit_day"], timeColumns: ["visit_at", "visit_day"], distinctColumns: ["visit_no", "pets"],
+        target: { column: "no_show", kind: "binary" }, contentColumns: source.columns,
+      };
+      const run = (mode: PassMode) => passIn<Row>(engine, plan, mode, COLUMNS);
+      const apart = await run("apart");
+      const inline = await run("grouping");
+      const wide = await run("wide");
+      expect([apart.apart, inline.apart, wide.wide]).toEqual([true, false, true]);
+      expect(apart.table).toEqual(inline.table);
+      expect(apart.totals).toEqual(inline.totals);
+      expect(apart.totals).toEqual(wide.totals);
+      const [left] = await engine.rows<{ n: number }>(`SELECT count(*)::DOUBLE AS n FROM duckdb_tables() WHERE table_name = '${PASS_EXTRAS_TABLE}'`, "test");
+      expect(left?.n).toBe(0);
+
+      // brute force over the generated rows
+      const col = (name: string) => raw.map((r) => r[header.indexOf(name)]!);
+      const t = apart.totals;
+      expect(t.rows).toBe(900);
+      for (const c of ["visit_no", "pets", "visit_at", "visit_day"]) expect(t.nonMissing.get(c)).toBe(col(c).filter((v) => v !== "").length);
+      expect(t.badTargets).toBe(col("no_show").filter((v) => v === "unknown").length);
+      expect(t.targetRows).toBe(col("no_show").filter((v) => v === "0" || v === "1").length);
+      const at = col("visit_at").filter((v) => v !== "").sort();
+      expect([t.time?.get("visit_at")?.min, t.time?.get("visit_at")?.max]).toEqual([at[0], at[at.length - 1]]);
+      expect(t.time?.get("visit_at")?.offMinute).toBe(at.filter((v) => v.endsWith(":30")).length);
+      expect(t.time?.get("visit_day")?.offDay).toBe(0);
+      const pets = new Set(col("pets").filter((v) => v !== ""));
+      expect(t.distinct?.get("pets")?.distinct).toBe(pets.size);
+      // the content fingerprint equals the one encode computes by its own read
+      expect(t.content).toBe(await contentFingerprintOf(engine, source.view, source.columns, "test"));
+    });
+  });
+
+  it("is the default for Parquet only, and only when there are extras to sum", () => {
+    const before = process.env.TAILSIFT_PASS_EXTRAS;
+    delete process.env.TAILSIFT_PASS_EXTRAS;
+    try {
+      const base: PassPlan = { view: "v", fold: rowHashFolds(["a"], 5, 1), levelColumns: ["a"], countColumns: ["n"] };
+      expect(extrasApart({ ...base, extras: "apart" })).toBe(true);
+      expect(extrasApart({ ...base, extras: "inline" })).toBe(false);
+      expect(extrasApart(base)).toBe(false);
+      expect(extrasApart({ ...base, countColumns: [], extras: "apart" })).toBe(false);
+    } finally {
+      if (before !== undefined) process.env.TAILSIFT_PASS_EXTRAS = before;
+    }
+  });
+
+  it("through scan: a Parquet profile is the same with the extras inline", async () => {
+    // no bad target values here: with them the no-show column reads as three classes
+    const clean = visitsCsv(900, 12, false).file;
+    const parquetFile = path.join(dir, "visits-scan.parquet");
+    await withEngine({ threads: 1 }, (engine) => engine.run(
+      `COPY (SELECT * FROM read_csv(${quoteLiteral(clean)}, header = true, all_varchar = true)) TO ${quoteLiteral(parquetFile)} (FORMAT parquet)`, "writing the Parquet copy"));
+    const before = process.env.TAILSIFT_PASS_EXTRAS;
+    const strip = (p: Awaited<ReturnType<typeof scan>>) => ({ ...p, createdAt: "" });
+    try {
+      delete process.env.TAILSIFT_PASS_EXTRAS;
+      const byDefault = strip(await scan([parquetFile], { target: "no_show", threads: 1 }));
+      process.env.TAILSIFT_PASS_EXTRAS = "inline";
+      const inline = strip(await scan([parquetFile], { target: "no_show", threads: 1 }));
+      expect(byDefault).toEqual(inline);
+      expect(byDefault.columns.find((c) => c.name === "visit_at")?.time?.granularity).toBe("second");
+      expect(byDefault.input.contentFingerprint).toMatch(/^rows:900;sum64:[0-9a-f]{16}$/);
+    } finally {
+      if (before === undefined) delete process.env.TAILSIFT_PASS_EXTRAS;
+      else process.env.TAILSIFT_PASS_EXTRAS = before;
+    }
+  });
+
+  it("the CLI sums them apart for Parquet and inline for CSV (TAILSIFT_TRACE names the statement)", () => {
+    const parquetFile = path.join(dir, "visits-scan.parquet"); // written by the test above
+    const clean = visitsCsv(900, 12, false).file;
+    const traced = (file: string) => spawnSync(process.execPath, [path.resolve("dist/cli.js"), "scan", file, "--target", "no_show", "--quiet", "--format", "json"],
+      { env: { ...process.env, TAILSIFT_TRACE: "1", TAILSIFT_PASS_EXTRAS: "" }, encoding: "utf8" });
+    const p = traced(parquetFile);
+    const c = traced(clean);
+    expect([p.status, c.status]).toEqual([0, 0]);
+    expect(p.stderr).toContain("numeric, time and content totals");
+    expect(c.stderr).not.toContain("numeric, time and content totals");
+    expect(JSON.parse(p.stdout).input.contentFingerprint).toBe(JSON.parse(c.stdout).input.contentFingerprint);
+  });
+});
