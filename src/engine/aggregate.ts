@@ -79,8 +79,8 @@ export const PASS_BATCH = 200;
 export async function buildLevelTable(engine: Engine, plan: PassPlan, doing = "scanning the input"): Promise<PassTotals> {
   // wide inputs: one unnest pass (engine/widePass) builds the same table; totals are read below
   if (useWidePass(plan)) {
-    await buildWideLevelTable(engine, plan, doing);
-    return readPassTotals(engine, plan, false);
+    const nonMissing = await buildWideLevelTable(engine, plan, doing);
+    return readPassTotals(engine, plan, false, nonMissing);
   }
   // numeric, time and content totals: inside the GROUPING SETS pass, or apart (engine/passExtras)
   const apart = extrasApart(plan);
@@ -121,11 +121,12 @@ async function readDistinctCounts(engine: Engine, plan: PassPlan): Promise<Map<s
   return distinct;
 }
 
-async function readPassTotals(engine: Engine, plan: PassPlan, apart: boolean): Promise<PassTotals> {
+/** `nonMissing`: the numeric columns' counts when the pass already summed them (the wide pass). */
+async function readPassTotals(engine: Engine, plan: PassPlan, apart: boolean, nonMissing?: Map<string, number>): Promise<PassTotals> {
   const distinct = await readDistinctCounts(engine, plan);
   const classes = planClasses(plan);
   const counts = classes.map((_, k) => `, sum(${classSumColumn(k)})::DOUBLE AS c${k}`).join("")
-    + plan.countColumns.map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("")
+    + (nonMissing ? [] : plan.countColumns).map((_, i) => `, sum(__nn${i})::DOUBLE AS nn${i}`).join("")
     + (plan.contentColumns ? ", sum(__content)::VARCHAR AS content" : "");
   const rows = await engine.rows<Record<string, number>>(
     `SELECT fold, rows::DOUBLE AS rows, n_y::DOUBLE AS n_y, sum_y, sum_y2, bad::DOUBLE AS bad${counts}
@@ -141,8 +142,9 @@ async function readPassTotals(engine: Engine, plan: PassPlan, apart: boolean): P
     totals.sumY2 += r.sum_y2 ?? 0;
     totals.badTargets += r.bad ?? 0;
     totals.classRows?.forEach((n, k) => { totals.classRows![k] = n + (r[`c${k}`] ?? 0); });
-    plan.countColumns.forEach((c, i) => totals.nonMissing.set(c, (totals.nonMissing.get(c) ?? 0) + (r[`nn${i}`] ?? 0)));
+    if (!nonMissing) plan.countColumns.forEach((c, i) => totals.nonMissing.set(c, (totals.nonMissing.get(c) ?? 0) + (r[`nn${i}`] ?? 0)));
   }
+  if (nonMissing) totals.nonMissing = nonMissing;
   if (plan.contentColumns) totals.content = formatContentFingerprint(totals.rows, rows.map((r) => (r as unknown as { content: string | null }).content));
   const times = plan.timeColumns ?? [];
   if (times.length > 0) {

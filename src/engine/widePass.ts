@@ -8,12 +8,11 @@
  *   tailsift_levels(col, level, fold, rows, n_y, sum_y, sum_y2, bad, __nn0 …)
  * The per-fold totals (col = -1) ride along as one more unnested entry per row; the non-missing
  * counts of numeric columns ride along as marker entries (col = -2 - j, level '' when present),
- * which are moved into the totals rows' __nn columns and deleted once the pass is done. As in the
+ * which are summed (and deleted) once the pass is done. As in the
  * GROUPING SETS pass, time columns add their range aggregates (engine/timeColumns) to the totals
  * rows — taken over the one totals entry per row — and distinct-counted numeric columns add their
  * values as entries col = DISTINCT_COL_BASE - j, which engine/aggregate reads and deletes.
- * Level rows carry bad per group, as in the GROUPING SETS pass; their __nn columns are NULL
- * (only the totals rows' __nn are ever read). With plan.contentColumns the row's content hash is
+ * Level rows carry bad per group, as in the GROUPING SETS pass. With plan.contentColumns the row's content hash is
  * computed once, before the unnest, and summed on the totals rows only (__content), as in the
  * GROUPING SETS pass.
  */
@@ -73,17 +72,26 @@ FROM (SELECT __fold, __y, __bad${timeCols}${plan.contentColumns ? ", __h" : ""},
 GROUP BY col, level, __fold`;
 }
 
-/** Builds tailsift_levels with the wide pass; the caller reads the totals as for the GROUPING SETS pass. */
-export async function buildWideLevelTable(engine: Engine, plan: PassPlan, doing: string): Promise<void> {
-  const nn = plan.countColumns.map((_, j) => `, NULL::BIGINT AS __nn${j}`).join("");
-  await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TABLE} AS SELECT *${nn} FROM (${widePassSql(plan)})`, doing);
-  if (plan.countColumns.length === 0) return;
+/**
+ * Builds tailsift_levels with the wide pass and returns the numeric columns' non-missing counts,
+ * summed from their marker rows (one small GROUP BY col, fold read into JavaScript: at most folds ×
+ * numeric columns rows), which are then deleted. The counts used to be pivoted into __nn columns
+ * by one aggregate per column with a FILTER — 36 s of a 66 s scan of the bench's 1,500-column file,
+ * whose 1,125 numeric-looking columns made 1,125 filtered aggregates.
+ */
+export async function buildWideLevelTable(engine: Engine, plan: PassPlan, doing: string): Promise<Map<string, number>> {
+  await engine.run(`CREATE OR REPLACE TEMP TABLE ${LEVEL_TABLE} AS ${widePassSql(plan)}`, doing);
+  const nonMissing = new Map<string, number>();
+  if (plan.countColumns.length === 0) return nonMissing;
   const markerFloor = sqlNumber(DISTINCT_COL_BASE);
-  const sets = plan.countColumns.map((_, j) => `__nn${j} = coalesce(m.__m${j}, 0)`).join(", ");
-  const sums = plan.countColumns.map((_, j) => `sum(rows) FILTER (WHERE col = ${sqlNumber(-2 - j)} AND level IS NOT NULL)::BIGINT AS __m${j}`).join(", ");
-  await engine.run(`UPDATE ${LEVEL_TABLE} SET ${sets}
-    FROM (SELECT fold AS __f, ${sums} FROM ${LEVEL_TABLE} WHERE col <= -2 AND col > ${markerFloor} GROUP BY fold) m
-    WHERE ${LEVEL_TABLE}.col = -1 AND ${LEVEL_TABLE}.fold = m.__f`, "counting non-missing numeric values");
+  const counts = await engine.rows<{ col: number; n: number }>(
+    `SELECT col, coalesce(sum(rows) FILTER (WHERE level IS NOT NULL), 0)::DOUBLE AS n
+     FROM ${LEVEL_TABLE} WHERE col <= -2 AND col > ${markerFloor} GROUP BY col`, "counting non-missing numeric values");
+  for (const r of counts) {
+    const c = plan.countColumns[-2 - r.col];
+    if (c !== undefined) nonMissing.set(c, r.n);
+  }
   // the distinct entries (≤ DISTINCT_COL_BASE) stay for engine/aggregate to read
   await engine.run(`DELETE FROM ${LEVEL_TABLE} WHERE col <= -2 AND col > ${markerFloor}`, "counting non-missing numeric values");
+  return nonMissing;
 }
