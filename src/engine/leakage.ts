@@ -65,22 +65,26 @@ export interface LeakageScores {
  *                                    missing level takes the fold's prior too. Only the other levels'
  *                                    (level, fold) rows are joined to their totals (an equality join).
  * The fold priors are computed once per fold (fp). A weight of null is m = ∞ (no detectable
- * spread): every level scores the prior.
+ * spread): every level scores the prior — the overall mean in-sample, the fold's prior out of
+ * fold — so such a column's rows sum to the fold totals: it is scored from those (flatIns,
+ * flatOof), without reading its levels (identifier-like columns have about one level per row).
  */
 function scoredSql(weights: ReadonlyMap<number, number | null>): string {
   const values = [...weights].map(([col, m]) => `(${sqlNumber(col)}, ${m === null ? "NULL" : sqlNumber(m)}::DOUBLE)`).join(", ");
-  const cols = [...weights.keys()].map((c) => sqlNumber(c)).join(", ");
+  const fitted = [...weights].filter(([, m]) => m !== null).map(([c]) => sqlNumber(c));
   return `w(col, m) AS (VALUES ${values}),
-  ft AS (SELECT fold, n_y::DOUBLE AS fn, sum_y AS fs FROM ${LEVEL_TABLE} WHERE col = -1),
-  g AS (SELECT sum(fn) AS tn, sum(fs) AS ts FROM ft),
+  ft AS (SELECT fold, n_y::DOUBLE AS fn, sum_y AS fs, sum_y2 AS fs2 FROM ${LEVEL_TABLE} WHERE col = -1),
+  g AS (SELECT sum(fn) AS tn, sum(fs) AS ts, sum(fs2) AS ts2 FROM ft),
   fp AS (SELECT ft.fold, (g.ts - ft.fs) / (g.tn - ft.fn) AS prior FROM ft CROSS JOIN g),
   tl AS (
     SELECT t.col, t.level, t.n_y::DOUBLE AS tn, t.sum_y AS ts, t.sum_y2 AS ts2, t.single_fold, w.m
-    FROM ${LEVEL_TOTALS} t JOIN w ON t.col = w.col WHERE t.n_y > 0),
+    FROM ${LEVEL_TOTALS} t JOIN w ON t.col = w.col WHERE t.n_y > 0 AND w.m IS NOT NULL),
+  flatIns AS (SELECT w.col, g.ts / g.tn AS score, g.tn AS n, g.ts AS s, g.ts2 AS s2 FROM w CROSS JOIN g WHERE w.m IS NULL AND g.tn > 0),
   ins AS (
     SELECT tl.col, CASE WHEN tl.level IS NULL THEN g.ts / g.tn ELSE ${mEstimateSql("tl.ts", "tl.tn", "tl.m", "g.ts / g.tn")} END AS score,
       tl.tn AS n, tl.ts AS s, tl.ts2 AS s2
-    FROM tl CROSS JOIN g),
+    FROM tl CROSS JOIN g
+    UNION ALL SELECT * FROM flatIns),
   multi AS (
     SELECT l.col, l.fold, l.n_y::DOUBLE AS n, l.sum_y AS s, l.sum_y2 AS s2,
       ${mEstimateSql("(tl.ts - l.sum_y)", "(tl.tn - l.n_y)", "tl.m", "fp.prior")} AS score
@@ -88,13 +92,16 @@ function scoredSql(weights: ReadonlyMap<number, number | null>): string {
     WHERE tl.single_fold IS NULL AND l.n_y > 0),
   missing AS (
     SELECT l.col, l.fold, l.n_y::DOUBLE AS n, l.sum_y AS s, l.sum_y2 AS s2, fp.prior AS score
-    FROM ${LEVEL_TABLE} l JOIN fp ON fp.fold = l.fold WHERE l.level IS NULL AND l.col IN (${cols}) AND l.n_y > 0),
+    FROM ${LEVEL_TABLE} l JOIN fp ON fp.fold = l.fold WHERE l.level IS NULL AND l.col IN (${fitted.length > 0 ? fitted.join(", ") : "NULL"}) AND l.n_y > 0),
   tail AS (
     SELECT tl.col, tl.single_fold AS fold, tl.tn AS n, tl.ts AS s, tl.ts2 AS s2, fp.prior AS score
     FROM tl JOIN fp ON fp.fold = tl.single_fold WHERE tl.level IS NOT NULL),
+  flatOof AS (
+    SELECT w.col, ft.fold, ft.fn AS n, ft.fs AS s, ft.fs2 AS s2, fp.prior AS score
+    FROM w CROSS JOIN ft JOIN fp ON fp.fold = ft.fold WHERE w.m IS NULL AND ft.fn > 0),
   oofg AS MATERIALIZED (
     SELECT col, fold, score, sum(n) AS n, sum(s) AS s, sum(s2) AS s2
-    FROM (SELECT * FROM multi UNION ALL SELECT * FROM missing UNION ALL SELECT * FROM tail) GROUP BY col, fold, score)`;
+    FROM (SELECT * FROM multi UNION ALL SELECT * FROM missing UNION ALL SELECT * FROM tail UNION ALL SELECT * FROM flatOof) GROUP BY col, fold, score)`;
 }
 
 /** In-sample and out-of-fold sums for every column in `weights` (col → m used; null = ∞). */
