@@ -10,6 +10,7 @@
 import fs from "node:fs";
 import { isTailsiftError, TailsiftError, wrapEngineError } from "../errors.js";
 import { checkCompressedWhole } from "./compressed.js";
+import { dialectOptions, sniffDialect, type CsvDialect } from "./csvDialect.js";
 import type { Engine } from "./db.js";
 import { quoteIdent, quoteLiteral, quoteLiteralList } from "./sql.js";
 import { missingLikeSql, normaliseMissingLike } from "./missingLike.js";
@@ -61,22 +62,30 @@ interface ReadMode {
   header: boolean;
   /** Read with one thread in file order (the raw header: with several threads LIMIT 1 may return any row). */
   serial?: boolean;
+  /** The layout detected once (engine/csvDialect), pinned so DuckDB does not detect it again; only for the default mode. */
+  dialect?: CsvDialect | null;
 }
 
 function readerSql(format: InputFormat, files: readonly string[], options: SourceOptions, mode?: Partial<ReadMode>): string {
   const list = quoteLiteralList(files);
   if (format === "parquet") return `read_parquet(${list}, union_by_name = true, hive_partitioning = true)`;
   if (format === "jsonl") return `read_json(${list}, format = 'newline_delimited', union_by_name = true)`;
+  return `read_csv(${[list, ...csvOptions(format, options, mode)].join(", ")})`;
+}
+
+/** The read_csv options of `mode` after the file list (also those the layout is sniffed with). */
+function csvOptions(format: InputFormat, options: SourceOptions, mode?: Partial<ReadMode>): string[] {
   const m: ReadMode = { ignoreErrors: options.skipBadRows ?? false, storeRejects: options.skipBadRows ?? false, header: true, ...mode };
-  const parts = [list, `header = ${m.header}`, "all_varchar = true", `union_by_name = ${!m.storeRejects}`,
+  const parts = [`header = ${m.header}`, "all_varchar = true", `union_by_name = ${!m.storeRejects}`,
     `max_line_size = ${MAX_LINE_BYTES}`, `buffer_size = ${BUFFER_BYTES}`];
   const delimiter = options.delimiter ?? (format === "tsv" ? "\t" : undefined);
-  if (delimiter !== undefined) parts.push(`delim = ${quoteLiteral(delimiter)}`);
+  if (m.dialect) parts.push(...dialectOptions(m.dialect, delimiter));
+  else if (delimiter !== undefined) parts.push(`delim = ${quoteLiteral(delimiter)}`);
   if (options.encoding !== undefined) parts.push(`encoding = ${quoteLiteral(normaliseEncoding(options.encoding))}`);
   if (m.ignoreErrors) parts.push("ignore_errors = true");
   if (m.storeRejects) parts.push("store_rejects = true");
   if (m.serial) parts.push("parallel = false");
-  return `read_csv(${parts.join(", ")})`;
+  return parts;
 }
 
 function normaliseEncoding(encoding: string): string {
@@ -200,10 +209,13 @@ export async function openSource(engine: Engine, inputs: readonly string[], opti
     bytes += size;
     if (csv) refuseBinary(file, options);
   }
-  const reader = readerSql(format, files, options);
   const whole = checkCompressedWhole(files);
   whole.catch(() => undefined); // awaited below; a truncated file explains a failed header read too
-  const columns = await (csv ? describeCsv(engine, format, reader, files, options) : describe(engine, reader, files))
+  // CSV: the layout is detected once, with the options of the view's read (store_rejects aside:
+  // it records rows, and implies the ignore_errors that is given), and pinned in that read
+  const dialect = csv ? await sniffDialect(engine, files, csvOptions(format, options, { storeRejects: false })) : null;
+  const reader = readerSql(format, files, options, { dialect });
+  const columns = await (csv ? describeCsv(engine, format, reader, files, options, dialect) : describe(engine, reader, files))
     .catch(async (err: unknown) => { await whole; throw err; });
   await whole;
   if (columns.length === 0) throw new TailsiftError("empty_input", `no columns found in ${describeFiles(files)}`);
@@ -226,7 +238,7 @@ export async function openSource(engine: Engine, inputs: readonly string[], opti
  * With --skip-bad-rows over several files every file must have the same columns (DuckDB records
  * skipped rows only when it reads the files by position).
  */
-async function describeCsv(engine: Engine, format: InputFormat, reader: string, files: readonly string[], options: SourceOptions): Promise<string[]> {
+async function describeCsv(engine: Engine, format: InputFormat, reader: string, files: readonly string[], options: SourceOptions, dialect: CsvDialect | null): Promise<string[]> {
   let columns: string[] | null = null;
   let failure: unknown = null;
   try {
@@ -245,7 +257,7 @@ async function describeCsv(engine: Engine, format: InputFormat, reader: string, 
   }
   if (columns === null) throw failure;
   if (options.skipBadRows && files.length > 1) {
-    const union = await describe(engine, readerSql(format, files, options, { ignoreErrors: true, storeRejects: false }), files);
+    const union = await describe(engine, readerSql(format, files, options, { ignoreErrors: true, storeRejects: false, dialect }), files);
     const missing = union.filter((c) => !columns.includes(c));
     if (missing.length > 0) {
       throw new TailsiftError("skip_bad_rows_headers", `--skip-bad-rows needs every file to have the same columns, but only some of ${describeFiles(files)} have ${missing.slice(0, 3).map((c) => `'${c}'`).join(", ")}; scan those files separately`);
