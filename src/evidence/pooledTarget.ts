@@ -48,6 +48,9 @@ export async function groupedTargetScore(engine: Engine, col: number, column: Co
  */
 export async function pooledTargetCandidate(engine: Engine, col: number, column: ColumnProfile, kind: TargetKind, policy: AdvicePolicy): Promise<EvidenceCandidate | null> {
   const minRows = policy.minLevelRows;
+  // the edge case read off the count-of-counts, before building a map of every level (an
+  // identifier has about one level per row): the largest level is below minRows
+  if (column.countOfCounts && largestLevelRows(column.countOfCounts) < minRows) return null;
   const { weight, method, score } = await groupedTargetScore(engine, col, column, [], minRows, kind, "pooled target encoding");
   const figures = await backoffFigures(engine, minRows);
   if (figures.levelRowShare === 0) return null;
@@ -59,4 +62,9 @@ export async function pooledTargetCandidate(engine: Engine, col: number, column:
     },
     ...scored(score),
   };
+}
+
+/** Rows of the largest level, from a count-of-counts (0 when there are no levels). */
+export function largestLevelRows(countOfCounts: readonly { count: number; levels: number }[]): number {
+  return countOfCounts.reduce((m, c) => (c.levels > 0 && c.count > m ? c.count : m), 0);
 }
