@@ -47,7 +47,8 @@ const SAMPLE_LEVEL_COLUMNS = ["appointment_id", "appointment_date", "clinic", "v
 const STRESS_TARGET = "y";
 const STRESS_LEVEL_COLUMNS = ["c01", "c02", "c03", "c04", "c05", "c06", "c07", "c08", "c09", "c10", "c11", "tail"];
 
-const GOALS = { scanOverBare: 1.25, encodeOverCopy: 2, pandasSpeed: 5, pandasMemory: 5, limitedRssGB: 1.6, wideOverBare: 2, wideRssGB: 1, bigRssGB: 3 };
+// issue 13: scan ≥ 10× faster than the pandas workflow at ≤ 1/3 of its peak memory (an earlier issue asked 5× and 1/5)
+const GOALS = { scanOverBare: 1.25, encodeOverCopy: 2, pandasSpeed: 10, pandasMemory: 3, limitedRssGB: 1.6, wideOverBare: 2, wideRssGB: 1, bigRssGB: 3 };
 
 // ---- options ---------------------------------------------------------------------------------
 
