@@ -7,7 +7,7 @@
  */
 import { buildLevelTable, LEVEL_TABLE, type PassPlan, type PassTotals } from "../../src/engine/aggregate.js";
 import type { Engine } from "../../src/engine/db.js";
-import { extrasApart } from "../../src/engine/passExtras.js";
+import { extrasApart, wideExtrasApart } from "../../src/engine/passExtras.js";
 import { useWidePass } from "../../src/engine/widePass.js";
 
 export type PassMode = "wide" | "grouping" | "apart";
@@ -18,7 +18,7 @@ export async function passIn<Row>(engine: Engine, plan: PassPlan, mode: PassMode
   process.env.TAILSIFT_PASS_EXTRAS = mode === "apart" ? "apart" : "inline";
   try {
     const wide = useWidePass(plan);
-    const apart = !wide && extrasApart(plan);
+    const apart = wide ? wideExtrasApart(plan) : extrasApart(plan);
     const totals = await buildLevelTable(engine, plan);
     const table = await engine.rows<Row>(`SELECT ${columns} FROM ${LEVEL_TABLE} ORDER BY col, level NULLS FIRST, fold`, "reading the level table");
     return { table, totals, wide, apart };
