@@ -8,8 +8,8 @@
  * only the fold-totals set is ever read. Measured on the bench's 1M-row sample (11 level columns, 3
  * numeric, 1 time; bench/README.md): the pass took 1.1–1.8 s with the extras inline and 0.5–1.0 s
  * without them, and the extras alone, grouped by fold, 0.2–0.3 s — on Parquet, where a second read
- * of the columns is cheap. On CSV the second read re-parses the file (0.75–0.86 s against 1.2 s
- * saved), so text inputs keep the one read.
+ * of the columns is cheap. On CSV the second read re-parses the file, so text inputs keep the one
+ * read unless the extras are many (INLINE_EXTRAS_MAX).
  *
  * The wide pass (engine/widePass) sums them apart whenever there are time columns: there they were
  * aggregates FILTERed to each row's totals entry, and 60 date columns made a 10k-row pass take 166 s
@@ -28,6 +28,26 @@ export const PASS_EXTRAS_TABLE = "tailsift_pass_extras";
 
 const hasExtras = (plan: PassPlan): boolean =>
   plan.countColumns.length > 0 || (plan.timeColumns ?? []).length > 0 || (plan.contentColumns ?? []).length > 0;
+
+/**
+ * Most extras aggregates per grouping set that a text input (CSV, JSON lines) still carries inline:
+ * at most this many it is read once. Each extra costs one update per row per measured column
+ * inside the pass, a second read costs one re-parse: measured on CSV, 11 extras (3 numeric
+ * columns, one time column, the content hash; the bench's sample at 10M rows) took the same time
+ * either way and 2.2 GB less memory apart; 421 (60 date columns, 10k rows) took 13.4 s inline and
+ * 1.4 s apart; 2 (the stress table) stay inline.
+ */
+export const INLINE_EXTRAS_MAX = 8;
+
+/** Aggregates the extras add to every grouping set: a count per numeric column, seven per time column, one for the content hash. */
+export function extrasAggregates(plan: Pick<PassPlan, "countColumns" | "timeColumns" | "contentColumns">): number {
+  return plan.countColumns.length + 7 * (plan.timeColumns ?? []).length + (plan.contentColumns ? 1 : 0);
+}
+
+/** Where a scan of `format` sums the plan's extras: apart for Parquet (a column store re-reads cheaply), and for text inputs with many extras. */
+export function extrasFor(format: string, plan: Pick<PassPlan, "countColumns" | "timeColumns" | "contentColumns">): "inline" | "apart" {
+  return format === "parquet" || extrasAggregates(plan) > INLINE_EXTRAS_MAX ? "apart" : "inline";
+}
 
 /** True when the plan's extras are summed apart (TAILSIFT_PASS_EXTRAS=apart|inline forces it, for measuring and tests). */
 export function extrasApart(plan: PassPlan): boolean {

@@ -15,7 +15,7 @@ import type { PassPlan } from "../../src/engine/aggregate.js";
 import { contentFingerprintOf } from "../../src/engine/contentFingerprint.js";
 import { withEngine } from "../../src/engine/db.js";
 import { rowHashFolds } from "../../src/engine/folds.js";
-import { extrasApart, PASS_EXTRAS_TABLE } from "../../src/engine/passExtras.js";
+import { extrasAggregates, extrasApart, extrasFor, INLINE_EXTRAS_MAX, PASS_EXTRAS_TABLE } from "../../src/engine/passExtras.js";
 import { openSource } from "../../src/engine/source.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
 import { scan } from "../../src/commands/scan.js";
@@ -130,16 +130,31 @@ describe("pass extras summed apart equal the inline pass and a brute-force recou
     }
   });
 
-  it("the CLI sums them apart for Parquet and inline for CSV (TAILSIFT_TRACE names the statement)", () => {
+  it("the CLI sums them apart for Parquet and for text inputs with many extras, inline for text inputs with few (TAILSIFT_TRACE names the statement)", () => {
     const parquetFile = path.join(dir, "visits-scan.parquet"); // written by the test above
-    const clean = visitsCsv(900, 12, false).file;
+    const clean = visitsCsv(900, 12, false);
+    // the same rows without the visit number and the two time columns: one numeric column + the content hash = 2 extras
+    const few = writeFile(dir, "visits-few.csv", `${[["pets", "species", "clinic", "no_show"], ...clean.raw.map((r) => [r[1], r[4], r[5], r[6]])].map((l) => l.join(",")).join("\n")}\n`);
     const traced = (file: string) => spawnSync(process.execPath, [path.resolve("dist/cli.js"), "scan", file, "--target", "no_show", "--quiet", "--format", "json"],
       { env: { ...process.env, TAILSIFT_TRACE: "1", TAILSIFT_PASS_EXTRAS: "" }, encoding: "utf8" });
     const p = traced(parquetFile);
-    const c = traced(clean);
-    expect([p.status, c.status]).toEqual([0, 0]);
+    const many = traced(clean.file);
+    const one = traced(few);
+    expect([p.status, many.status, one.status]).toEqual([0, 0, 0]);
     expect(p.stderr).toContain("numeric, time and content totals");
-    expect(c.stderr).not.toContain("numeric, time and content totals");
-    expect(JSON.parse(p.stdout).input.contentFingerprint).toBe(JSON.parse(c.stdout).input.contentFingerprint);
+    expect(many.stderr).toContain("numeric, time and content totals");
+    expect(one.stderr).not.toContain("numeric, time and content totals");
+    expect(JSON.parse(p.stdout).input.contentFingerprint).toBe(JSON.parse(many.stdout).input.contentFingerprint);
+  });
+
+  it("chooses by format and by the number of extras aggregates", () => {
+    const plan = (numeric: number, time: number) => ({ countColumns: Array.from({ length: numeric + time }, (_, j) => `x${j}`), timeColumns: Array.from({ length: time }, (_, j) => `x${numeric + j}`), contentColumns: ["a"] });
+    expect(extrasAggregates(plan(3, 1))).toBe(3 + 1 + 7 + 1);
+    expect(extrasFor("parquet", plan(0, 0))).toBe("apart");
+    expect(extrasFor("csv", plan(1, 0))).toBe("inline"); // the bench's stress table
+    expect(extrasFor("csv", plan(INLINE_EXTRAS_MAX - 1, 0))).toBe("inline");
+    expect(extrasFor("csv", plan(INLINE_EXTRAS_MAX, 0))).toBe("apart");
+    expect(extrasFor("csv", plan(2, 1))).toBe("apart"); // the bench's sample: 2 numeric + 1 time column
+    expect(extrasFor("jsonl", plan(0, 60))).toBe("apart");
   });
 });
