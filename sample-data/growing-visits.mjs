@@ -17,8 +17,7 @@
  * Also imported by the tests (test/fixtures/growingVisits.ts). Plain Node ESM, no dependencies.
  * Randomness: mulberry32 (sample-data/random.mjs).
  */
-import fs from "node:fs";
-import { pathToFileURL } from "node:url";
+import { runGenerator } from "./generatorCli.mjs";
 import { mulberry32 } from "./random.mjs";
 
 
@@ -51,15 +50,4 @@ export function growingVisits(rowCount = 4000, seed = 12, codes = 700) {
   return { header, rows, csv: [header.join(","), ...rows.map((r) => r.join(","))].join("\n") + "\n" };
 }
 
-if (import.meta.url === pathToFileURL(process.argv[1] ?? "").href) {
-  const args = process.argv.slice(2);
-  const value = (name) => { const i = args.indexOf(name); return i >= 0 ? args[i + 1] : undefined; };
-  const rows = Number(value("--rows")), seed = Number(value("--seed")), out = value("--out");
-  if (!Number.isInteger(rows) || rows < 1 || !Number.isInteger(seed) || seed < 0 || !out) {
-    process.stderr.write("usage: node sample-data/growing-visits.mjs --rows N --seed S --out FILE.csv\n");
-    process.exit(2);
-  }
-  const tmp = `${out}.${process.pid}.tmp`;
-  fs.writeFileSync(tmp, growingVisits(rows, seed).csv);
-  fs.renameSync(tmp, out);
-}
+runGenerator(import.meta.url, "growing-visits.mjs", growingVisits);
