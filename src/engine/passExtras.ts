@@ -59,8 +59,7 @@ export function extrasApart(plan: PassPlan): boolean {
 
 /** The plan without its extras: what the GROUPING SETS pass counts when they are summed apart. */
 export function withoutExtras(plan: PassPlan): PassPlan {
-  const { contentColumns: _content, ...rest } = plan;
-  return { ...rest, countColumns: [], timeColumns: [] };
+  return { ...withoutTimeAndContent(plan), countColumns: [] };
 }
 
 /** True when the wide pass sums the time and content totals apart: whenever the plan has time columns. */

@@ -33,11 +33,6 @@ export type TimeGranularity = "day" | "hour" | "minute" | "second" | "sub-second
 /** The granularity flags of a time column: not a whole day / hour / minute / second. */
 const FLAGS = [["d", "day"], ["h", "hour"], ["m", "minute"], ["s", "second"]] as const;
 
-/** Names of time column i's per-row flags (see timeFlagSql). */
-export function timeFlagNames(i: number): string[] {
-  return FLAGS.map(([k]) => `__t${k}f${i}`);
-}
-
 /**
  * Time column i's per-row granularity flags, from its TIMESTAMP alias `t` (NULL when `t` is
  * NULL). They are computed once per row, below the GROUP BY: an aggregate is evaluated for every
@@ -49,16 +44,11 @@ export function timeFlagSql(t: string, i: number): string[] {
 
 /**
  * The per-fold aggregates of one time column in the pass; `t` is the column's TIMESTAMP alias and
- * its flags (timeFlagSql) are columns of the rows grouped. `where` restricts them to some rows of
- * the group (the wide pass: its one totals entry per row).
+ * its flags (timeFlagSql) are columns of the rows grouped.
  */
-export function timePassAggregates(t: string, i: number, where?: string): string {
-  const only = (cond: string | null) => {
-    const all = [cond, where].filter((x): x is string => x !== null && x !== undefined);
-    return all.length > 0 ? ` FILTER (WHERE ${all.join(" AND ")})` : "";
-  };
-  const notWhole = (name: string) => `count(*)${only(`__t${name}f${i}`)}::BIGINT AS __t${name}${i}`;
-  return [`min(${t})${only(null)} AS __tmin${i}`, `max(${t})${only(null)} AS __tmax${i}`, `count(${t})${only(null)}::BIGINT AS __tn${i}`,
+export function timePassAggregates(t: string, i: number): string {
+  const notWhole = (name: string) => `count(*) FILTER (WHERE __t${name}f${i})::BIGINT AS __t${name}${i}`;
+  return [`min(${t}) AS __tmin${i}`, `max(${t}) AS __tmax${i}`, `count(${t})::BIGINT AS __tn${i}`,
     ...FLAGS.map(([k]) => notWhole(k))].join(", ");
 }
 

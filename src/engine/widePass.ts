@@ -8,10 +8,10 @@
  *   tailsift_levels(col, level, fold, rows, n_y, sum_y, sum_y2, bad, __nn0 …)
  * The per-fold totals (col = -1) ride along as one more unnested entry per row; the non-missing
  * counts of numeric columns ride along as marker entries (col = -2 - j, level '' when present),
- * which are summed (and deleted) once the pass is done. As in the
- * GROUPING SETS pass, time columns add their range aggregates (engine/timeColumns) to the totals
- * rows — taken over the one totals entry per row — and distinct-counted numeric columns add their
- * values as entries col = DISTINCT_COL_BASE - j, which engine/aggregate reads and deletes.
+ * which are summed (and deleted) once the pass is done. Distinct-counted numeric columns add their
+ * values as entries col = DISTINCT_COL_BASE - j, which engine/aggregate reads and deletes. Time
+ * columns' range aggregates are not taken here: engine/aggregate sums them apart (engine/passExtras;
+ * filtered to the totals entries they made this statement crawl).
  * Level rows carry bad per group, as in the GROUPING SETS pass. With plan.contentColumns the row's content hash is
  * computed once, before the unnest, and summed on the totals rows only (__content), as in the
  * GROUPING SETS pass.
@@ -19,7 +19,6 @@
 import type { Engine } from "./db.js";
 import { classSumsSql, DISTINCT_COL_BASE, LEVEL_TABLE, rowFieldsSql, type PassPlan } from "./passPlan.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
-import { timeFlagNames, timeFlagSql, timePassAggregates, timeValueSql } from "./timeColumns.js";
 
 /**
  * The wide pass is used from this many measured columns on. Measured with bench/wide-crossover.mjs
@@ -42,7 +41,6 @@ export function useWidePass(plan: PassPlan): boolean {
 /** The aggregate of the wide pass, including the totals (-1), numeric-marker (≤ -2) and distinct (≤ DISTINCT_COL_BASE) rows. */
 export function widePassSql(plan: PassPlan): string {
   const keys = plan.distinctColumns ?? [];
-  const times = plan.timeColumns ?? [];
   const cols = [
     ...plan.levelColumns.map((_, i) => sqlNumber(i)),
     "-1",
@@ -55,20 +53,13 @@ export function widePassSql(plan: PassPlan): string {
     ...plan.countColumns.map((c) => `CASE WHEN ${quoteIdent(c)} IS NULL THEN NULL ELSE '' END`),
     ...keys.map((c) => quoteIdent(c)),
   ];
-  const timeCols = times.map((_, i) => `, ${[`__t${i}`, ...timeFlagNames(i)].join(", ")}`).join("");
-  // the granularity flags are computed once per input row, before the unnest (engine/timeColumns)
-  const flags = times.flatMap((_, i) => timeFlagSql(`__t${i}`, i));
-  const timeValues = times.map((c, i) => `, ${timeValueSql(quoteIdent(c))} AS __t${i}`).join("");
-  const timeAggs = times.map((_, i) => `, ${timePassAggregates(`__t${i}`, i, "col = -1")}`).join("");
   const content = plan.contentColumns ? `, sum(__h) FILTER (WHERE col = -1)::HUGEINT AS __content` : "";
   const y2 = plan.target?.kind === "binary" ? "coalesce(sum(__y), 0)::DOUBLE" : "coalesce(sum(__y * __y), 0)::DOUBLE";
   return `SELECT col, level, __fold AS fold, count(*)::BIGINT AS rows, count(__y)::BIGINT AS n_y,
-  coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${y2} AS sum_y2, count(*) FILTER (WHERE __bad)::BIGINT AS bad${classSumsSql(plan)}${timeAggs}${content}
-FROM (SELECT __fold, __y, __bad${timeCols}${plan.contentColumns ? ", __h" : ""}, unnest([${cols.join(", ")}])::INTEGER AS col, unnest(__vals) AS level
-      FROM (SELECT *${flags.map((f) => `, ${f}`).join("")}
-            FROM (SELECT ${rowFieldsSql(plan).join(", ")}${timeValues},
-                    [${values.join(", ")}]::VARCHAR[] AS __vals
-                  FROM ${plan.view})))
+  coalesce(sum(__y), 0)::DOUBLE AS sum_y, ${y2} AS sum_y2, count(*) FILTER (WHERE __bad)::BIGINT AS bad${classSumsSql(plan)}${content}
+FROM (SELECT __fold, __y, __bad${plan.contentColumns ? ", __h" : ""}, unnest([${cols.join(", ")}])::INTEGER AS col, unnest(__vals) AS level
+      FROM (SELECT ${rowFieldsSql(plan).join(", ")}, [${values.join(", ")}]::VARCHAR[] AS __vals
+            FROM ${plan.view}))
 GROUP BY col, level, __fold`;
 }
 
