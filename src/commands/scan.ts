@@ -6,6 +6,7 @@
 import { DEFAULT_POLICY, validatePolicy, type AdvicePolicy } from "../advice/policy.js";
 import { buildLevelTable } from "../engine/aggregate.js";
 import { extrasFor } from "../engine/passExtras.js";
+import { keyableTimeColumns } from "../engine/keyedExtras.js";
 import { withEngine, type Engine, type EngineOptions } from "../engine/db.js";
 import { checkFoldRequest, foldContractFor, timeBlockCuts, type FoldRequest } from "../engine/folds.js";
 import { numberTypeOf, sampleColumns, sampleTargetValues } from "../engine/inspect.js";
@@ -109,7 +110,7 @@ async function scanWith(engine: Engine, inputs: readonly string[], options: Scan
   // the level table need not keep row order; letting DuckDB drop it makes the pass ~30 % faster.
   // Only from here: the samples above read the FIRST rows (LIMIT), which without order are any rows
   await engine.run("SET preserve_insertion_order = false", "configuring the engine");
-  const extrasOf = { countColumns: [...numeric, ...time], timeColumns: time, contentColumns: source.columns };
+  const extrasOf = { countColumns: [...numeric, ...time], timeColumns: time, contentColumns: source.columns, keyableTimeColumns: keyableTimeColumns(samples, time) };
   const totals = await buildLevelTable(engine, {
     view: source.view, levelColumns, distinctColumns: distinct, target: targetSpec, fold, ...extrasOf,
     // a second read can be cheaper than carrying these sums in every grouping set (engine/passExtras)

@@ -21,6 +21,7 @@
 import type { Engine } from "./db.js";
 import { LEVEL_TABLE, rowFieldsSql, type PassPlan } from "./passPlan.js";
 import { quoteIdent } from "./sql.js";
+import { splitKeyed } from "./keyedExtras.js";
 import { timeFlagSql, timePassAggregates, timeValueSql } from "./timeColumns.js";
 
 /** The per-fold extras when summed apart (one row per fold). */
@@ -44,9 +45,12 @@ export function extrasAggregates(plan: Pick<PassPlan, "countColumns" | "timeColu
   return plan.countColumns.length + 7 * (plan.timeColumns ?? []).length + (plan.contentColumns ? 1 : 0);
 }
 
-/** Where a scan of `format` sums the plan's extras: apart for Parquet (a column store re-reads cheaply), and for text inputs with many extras. */
-export function extrasFor(format: string, plan: Pick<PassPlan, "countColumns" | "timeColumns" | "contentColumns">): "inline" | "apart" {
-  return format === "parquet" || extrasAggregates(plan) > INLINE_EXTRAS_MAX ? "apart" : "inline";
+/**
+ * Where a scan of `format` sums the plan's extras that are not grouping keys (engine/keyedExtras):
+ * apart for Parquet (a column store re-reads cheaply), and for text inputs with many extras.
+ */
+export function extrasFor(format: string, plan: Pick<PassPlan, "countColumns" | "timeColumns" | "contentColumns" | "keyableTimeColumns">): "inline" | "apart" {
+  return format === "parquet" || extrasAggregates(splitKeyed(plan).rest) > INLINE_EXTRAS_MAX ? "apart" : "inline";
 }
 
 /** True when the plan's extras are summed apart (TAILSIFT_PASS_EXTRAS=apart|inline forces it, for measuring and tests). */

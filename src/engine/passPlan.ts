@@ -36,6 +36,11 @@ export interface PassPlan {
    * only (a second read). Default: apart for Parquet, inline otherwise (engine/passExtras).
    */
   extras?: "inline" | "apart";
+  /**
+   * Of timeColumns: those with few distinct values in the first rows, whose range the GROUPING SETS
+   * pass reads from a grouping set of their text (engine/keyedExtras). The wide pass ignores it.
+   */
+  keyableTimeColumns?: readonly string[];
 }
 
 /**

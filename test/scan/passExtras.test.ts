@@ -17,6 +17,8 @@ import { withEngine } from "../../src/engine/db.js";
 import { rowHashFolds } from "../../src/engine/folds.js";
 import { extrasAggregates, extrasApart, extrasFor, INLINE_EXTRAS_MAX, PASS_EXTRAS_TABLE } from "../../src/engine/passExtras.js";
 import { openSource } from "../../src/engine/source.js";
+import { KEYED_TIME_SHARE, keyableTimeColumns, MASK_MAX, splitKeyed } from "../../src/engine/keyedExtras.js";
+import { LEVEL_TABLE } from "../../src/engine/passPlan.js";
 import { quoteLiteral } from "../../src/engine/sql.js";
 import { scan } from "../../src/commands/scan.js";
 import { passIn, type PassMode } from "../helpers/passModes.js";
@@ -147,14 +149,73 @@ describe("pass extras summed apart equal the inline pass and a brute-force recou
     expect(JSON.parse(p.stdout).input.contentFingerprint).toBe(JSON.parse(many.stdout).input.contentFingerprint);
   });
 
-  it("chooses by format and by the number of extras aggregates", () => {
+  it("chooses by format and by the number of extras aggregates left once counts are masked (engine/keyedExtras)", () => {
     const plan = (numeric: number, time: number) => ({ countColumns: Array.from({ length: numeric + time }, (_, j) => `x${j}`), timeColumns: Array.from({ length: time }, (_, j) => `x${numeric + j}`), contentColumns: ["a"] });
     expect(extrasAggregates(plan(3, 1))).toBe(3 + 1 + 7 + 1);
     expect(extrasFor("parquet", plan(0, 0))).toBe("apart");
     expect(extrasFor("csv", plan(1, 0))).toBe("inline"); // the bench's stress table
-    expect(extrasFor("csv", plan(INLINE_EXTRAS_MAX - 1, 0))).toBe("inline");
-    expect(extrasFor("csv", plan(INLINE_EXTRAS_MAX, 0))).toBe("apart");
-    expect(extrasFor("csv", plan(2, 1))).toBe("apart"); // the bench's sample: 2 numeric + 1 time column
+    expect(extrasFor("csv", plan(MASK_MAX, 0))).toBe("inline"); // every count in the mask, the content hash inline
+    expect(extrasFor("csv", plan(MASK_MAX + INLINE_EXTRAS_MAX, 0))).toBe("apart"); // INLINE_EXTRAS_MAX counts beyond the mask + the content hash
+    expect(extrasFor("csv", plan(MASK_MAX + INLINE_EXTRAS_MAX - 1, 0))).toBe("inline");
+    expect(extrasFor("csv", plan(2, 1))).toBe("inline"); // the bench's sample: 2 numeric + 1 time column, 7 + 1 aggregates
     expect(extrasFor("jsonl", plan(0, 60))).toBe("apart");
+  });
+});
+
+describe("extras as grouping keys (engine/keyedExtras) equal them as aggregates", () => {
+  const { file: csv, raw, header } = visitsCsv(700, 21);
+
+  it("masked counts and a keyed time column: the same level table and totals as unkeyed, inline and apart", async () => {
+    await withEngine({ threads: 2 }, async (engine) => {
+      const source = await openSource(engine, [csv]);
+      const plan: PassPlan = {
+        view: source.view, fold: rowHashFolds(source.columns, 5, 42), levelColumns: ["species", "clinic"],
+        countColumns: ["visit_no", "pets", "visit_at", "visit_day"], timeColumns: ["visit_at", "visit_day"], keyableTimeColumns: ["visit_day"],
+        distinctColumns: ["pets"], target: { column: "no_show", kind: "binary" }, contentColumns: source.columns,
+      };
+      const unkeyed = await passIn<Row>(engine, plan, "unkeyed", COLUMNS);
+      const keyed = await passIn<Row>(engine, plan, "grouping", COLUMNS);
+      const keyedApart = await passIn<Row>(engine, plan, "apart", COLUMNS);
+      expect(keyed.table).toEqual(unkeyed.table);
+      expect(keyedApart.table).toEqual(unkeyed.table);
+      expect(keyed.totals).toEqual(unkeyed.totals);
+      expect(keyedApart.totals).toEqual(unkeyed.totals);
+      // no keyed entry is left behind in the level table
+      const [left] = await engine.rows<{ n: number }>(`SELECT count(*)::DOUBLE AS n FROM ${LEVEL_TABLE} WHERE col < -1`, "test");
+      expect(left?.n).toBe(0);
+      // brute force: the keyed date column's range and the masked counts
+      const col = (name: string) => raw.map((r) => r[header.indexOf(name)]!);
+      const days = col("visit_day").filter((v) => v !== "").sort();
+      expect(keyed.totals.time?.get("visit_day")).toEqual({ min: `${days[0]} 00:00:00`, max: `${days[days.length - 1]} 00:00:00`, parsed: days.length, offDay: 0, offHour: 0, offMinute: 0, offSecond: 0 });
+      for (const c of ["visit_no", "pets", "visit_at", "visit_day"]) expect(keyed.totals.nonMissing.get(c)).toBe(col(c).filter((v) => v !== "").length);
+    });
+  });
+
+  it("more count columns than the mask holds: the rest stay aggregates, the counts are the same", async () => {
+    await withEngine({ threads: 1 }, async (engine) => {
+      const source = await openSource(engine, [csv]);
+      // MASK_MAX + 3 count columns: copies of the four numeric and time columns under new names
+      const counts = Array.from({ length: MASK_MAX + 3 }, (_, j) => `n${j}`);
+      const from = ["visit_no", "pets", "visit_at", "visit_day"];
+      await engine.run(`CREATE TEMP VIEW many AS SELECT *, ${counts.map((c, j) => `"${from[j % 4]}" AS ${c}`).join(", ")} FROM ${source.view}`, "test");
+      const plan: PassPlan = { view: "many", fold: rowHashFolds(source.columns, 3, 7), levelColumns: ["clinic"], countColumns: counts, target: { column: "no_show", kind: "binary" } };
+      expect(splitKeyed(plan).counts).toHaveLength(MASK_MAX);
+      expect(splitKeyed(plan).rest.countColumns).toHaveLength(3);
+      const keyed = await passIn<Row>(engine, plan, "grouping", COLUMNS);
+      const unkeyed = await passIn<Row>(engine, plan, "unkeyed", COLUMNS);
+      expect(keyed.table).toEqual(unkeyed.table);
+      expect(keyed.totals).toEqual(unkeyed.totals);
+    });
+  });
+
+  it("keys a time column only when its first rows show few distinct values", () => {
+    const sample = (name: string, distinct: number, sampledRows: number) => ({ name, nonMissing: sampledRows, numberLike: 0, integerLike: 0, distinct, timeLike: sampledRows, sampledRows });
+    const samples = [sample("day", 700, 50_000), sample("at", 41_000, 50_000), sample("edge", 5_000, 50_000), sample("few", 3, 20)];
+    expect(keyableTimeColumns(samples, ["day", "at", "edge", "few"])).toEqual(["day", "edge"]);
+    expect(5_000).toBe(KEYED_TIME_SHARE * 50_000);
+    // keyed extras no longer count towards the inline limit: the bench's sample (3 count columns, one few-valued date) keeps one read
+    const plan = { countColumns: ["a", "b", "d", "e"], timeColumns: ["d", "e"], contentColumns: ["a"] };
+    expect(extrasFor("csv", plan)).toBe("apart"); // 2 × 7 time aggregates + the content hash
+    expect(extrasFor("csv", { ...plan, keyableTimeColumns: ["d", "e"] })).toBe("inline"); // the content hash alone
   });
 });
