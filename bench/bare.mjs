@@ -17,14 +17,15 @@
  * The fold is DuckDB's hash(seed, every column of the row) % folds, like the scan's fold, so both
  * sides do the same hashing work. The result is kept in a temp table (as the scan keeps its level
  * table) and only its row count crosses into JavaScript; it is printed on stdout as JSON.
- * Engine settings mirror the CLI's defaults (threads = cores, memory limit = 60 % of RAM capped at
- * 16 GB, a temp directory, no extension auto-loading) plus preserve_insertion_order = false, which
+ * Engine settings mirror the CLI's defaults (threads = cores, the memory limit of the CLI's
+ * defaultMemoryLimit(), imported from dist/, a temp directory, no extension auto-loading) plus preserve_insertion_order = false, which
  * an expert sets for an aggregate whose row order means nothing (--keep-order leaves it on).
  */
 import os from "node:os";
 import path from "node:path";
 import { parseArgs } from "node:util";
 import { DuckDBInstance } from "@duckdb/node-api";
+import { defaultMemoryLimit } from "../dist/engine/db.js";
 
 const { values, positionals } = parseArgs({
   allowPositionals: true,
@@ -53,14 +54,13 @@ const columns = values.columns.split(",");
 const isParquet = /\.(parquet|pq)$/i.test(file);
 const reader = isParquet ? `read_parquet(${lit(file)})` : `read_csv(${lit(file)}, header = true, all_varchar = true)`;
 
-const mb = Math.max(256, Math.min(16 * 1024, Math.floor((os.totalmem() / 2 ** 20) * 0.6)));
 const instance = await DuckDBInstance.create(":memory:", {
   autoinstall_known_extensions: "false",
   autoload_known_extensions: "false",
 });
 const con = await instance.connect();
 await con.run(`SET threads = ${Number(values.threads ?? os.availableParallelism())}`);
-await con.run(`SET memory_limit = ${lit(values["memory-limit"] ?? `${mb}MB`)}`);
+await con.run(`SET memory_limit = ${lit(values["memory-limit"] ?? defaultMemoryLimit())}`);
 await con.run(`SET temp_directory = ${lit(values["temp-dir"] ?? path.join(os.tmpdir(), `bench-bare-${process.pid}`))}`);
 // An expert lets DuckDB drop row order: the level table has no meaningful order (--keep-order to compare).
 await con.run(`SET preserve_insertion_order = ${values["keep-order"] ? "true" : "false"}`);

@@ -8,7 +8,7 @@ import os from "node:os";
 import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { runCli } from "../../src/cli.js";
-import { MIN_MEMORY_BYTES, parseMemoryLimit, withEngine } from "../../src/engine/db.js";
+import { defaultMemoryLimit, MIN_MEMORY_BYTES, parseMemoryLimit, withEngine } from "../../src/engine/db.js";
 import { PASS_BATCH } from "../../src/engine/aggregate.js";
 import { checkMeasuredWidth, MAX_MEASURED_COLUMNS, type Source } from "../../src/engine/source.js";
 import type { Profile } from "../../src/profile/types.js";
@@ -30,6 +30,19 @@ async function profile(args: string[]): Promise<Profile> {
   expect(await runCli([...args, "--format", "json"], c.io), c.err).toBe(0);
   return JSON.parse(c.out) as Profile;
 }
+
+describe("the default memory limit: a sixteenth of RAM, 2 to 16 GiB, never above 60 % of it", () => {
+  it.each([
+    [24, "2048MiB"], // this bench machine: 1.5 GiB is a sixteenth, so the 2 GiB floor
+    [64, "4096MiB"],
+    [256, "16384MiB"],
+    [1024, "16384MiB"], // capped at 16 GiB
+    [2, "1228MiB"], // a small machine: 60 % of it
+    [0.25, "256MiB"], // never below 256 MiB
+  ])("%s GiB of RAM → %s", (gib, expected) => {
+    expect(defaultMemoryLimit(gib * 2 ** 30)).toBe(expected);
+  });
+});
 
 describe("--memory-limit, --threads and --temp-dir are checked before DuckDB starts", () => {
   it.each([
