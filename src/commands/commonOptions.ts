@@ -31,7 +31,7 @@ export const decisions = (value: string, previous: Record<string, Encoding> = {}
 
 export function engineOptions(cmd: Command): Command {
   return cmd
-    .option("--memory-limit <size>", "DuckDB memory limit, e.g. 8GB or 50%; beyond it DuckDB spills to --temp-dir (default: 1/16 of RAM, 2GiB to 16GiB)")
+    .option("--memory-limit <size>", "DuckDB memory limit, e.g. 8GB or 50%; beyond it DuckDB spills to --temp-dir (default: 1/4 of RAM, 2GiB to 16GiB)")
     .option("--threads <n>", "DuckDB threads (default: all cores)", integer("--threads"))
     .option("--temp-dir <dir>", "folder DuckDB spills to when memory runs short (default: the OS temp folder)")
     .option("--quiet", "print nothing but results and errors")

@@ -13,7 +13,7 @@ import { TailsiftError, wrapEngineError } from "../errors.js";
 import { quoteLiteral, quoteLiteralList } from "./sql.js";
 
 export interface EngineOptions {
-  /** DuckDB memory limit, e.g. "2GB". Default: defaultMemoryLimit() (a sixteenth of RAM, 2–16 GiB). */
+  /** DuckDB memory limit, e.g. "2GB". Default: defaultMemoryLimit() (a quarter of RAM, 2–16 GiB). */
   memoryLimit?: string;
   threads?: number;
   /** Where DuckDB spills; default the OS temp folder. */
@@ -41,17 +41,17 @@ export interface Engine {
 }
 
 /**
- * The default memory limit: a sixteenth of the machine's memory, at least 2 GiB and at most 16 GiB,
- * never more than 60 % of it (nor less than 256 MiB). DuckDB spills to the temp directory beyond
- * it, so a scan or encode leaves the machine to the user's other work; --memory-limit raises it.
- * Our choice, measured on a 24 GiB, 2-core machine (bench/README.md): against the earlier 60 % of
- * RAM, a 30M-row CSV scan peaked at 2.7 GB instead of 10.4 GB for 22 % more time (99 s vs 81 s); a
- * 10M-row scan at 2.3 GB instead of 4.8 GB for 8 % more; a 10M-row encode 2.7 GB instead of 5.9 GB
- * for 17 % more.
+ * The default memory limit: a quarter of the machine's memory (the share JVMs take for their
+ * default heap: common practice), at least 2 GiB and at most 16 GiB, never more than 60 % of it
+ * (nor less than 256 MiB). DuckDB spills to the temp directory beyond it; --memory-limit changes it.
+ * Measured on a 24 GiB, 2-core machine (bench/README.md, 2026-12-04): the earlier
+ * 60 % kept every table resident (a 30M-row CSV scan peaked at 10.4 GB); 2 GiB held that scan to
+ * 2.7 GB for 22 % more time, but made the 10M-row scans 9–61 % slower, where they peak at 2.9–4.8 GB:
+ * a quarter (6 GiB here) leaves those alone and still bounds the largest inputs.
  */
 export function defaultMemoryLimit(totalBytes = os.totalmem()): string {
   const total = totalBytes / 2 ** 20;
-  const mb = Math.max(256, Math.min(0.6 * total, Math.max(2 * 1024, Math.min(16 * 1024, total / 16))));
+  const mb = Math.max(256, Math.min(0.6 * total, Math.max(2 * 1024, Math.min(16 * 1024, total / 4))));
   return `${Math.floor(mb)}MiB`;
 }
 

@@ -31,11 +31,11 @@ async function profile(args: string[]): Promise<Profile> {
   return JSON.parse(c.out) as Profile;
 }
 
-describe("the default memory limit: a sixteenth of RAM, 2 to 16 GiB, never above 60 % of it", () => {
+describe("the default memory limit: a quarter of RAM, 2 to 16 GiB, never above 60 % of it", () => {
   it.each([
-    [24, "2048MiB"], // this bench machine: 1.5 GiB is a sixteenth, so the 2 GiB floor
-    [64, "4096MiB"],
-    [256, "16384MiB"],
+    [24, "6144MiB"], // this bench machine
+    [4, "2048MiB"], // the 2 GiB floor
+    [64, "16384MiB"],
     [1024, "16384MiB"], // capped at 16 GiB
     [2, "1228MiB"], // a small machine: 60 % of it
     [0.25, "256MiB"], // never below 256 MiB
