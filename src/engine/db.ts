@@ -44,10 +44,11 @@ export interface Engine {
  * The default memory limit: a quarter of the machine's memory (the share JVMs take for their
  * default heap: common practice), at least 2 GiB and at most 16 GiB, never more than 60 % of it
  * (nor less than 256 MiB). DuckDB spills to the temp directory beyond it; --memory-limit changes it.
- * Measured on a 24 GiB, 2-core machine (bench/README.md, 2026-12-04): the earlier
- * 60 % kept every table resident (a 30M-row CSV scan peaked at 10.4 GB); 2 GiB held that scan to
- * 2.7 GB for 22 % more time, but made the 10M-row scans 9–61 % slower, where they peak at 2.9–4.8 GB:
- * a quarter (6 GiB here) leaves those alone and still bounds the largest inputs.
+ * Measured on a 24 GiB, 2-core machine (bench/README.md, 2026-12-04): the earlier 60 % kept every
+ * table resident (a 30M-row CSV scan peaked at 10.4 GB); 2 GiB held that scan to 2.7 GB for 22 %
+ * more time, but the 10M-row scans, which peak at 2.9–4.8 GB, spilled: scan/bare 2.91 / 3.51 /
+ * 2.29 / 3.11× in the bench run with 2 GiB against 2.77 / 3.02 / 2.01 / 2.39× with a quarter (6 GiB
+ * here), which leaves them resident and still bounds the largest inputs.
  */
 export function defaultMemoryLimit(totalBytes = os.totalmem()): string {
   const total = totalBytes / 2 ** 20;

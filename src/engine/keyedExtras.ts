@@ -28,7 +28,7 @@ import type { Engine } from "./db.js";
 import type { ColumnSample } from "./inspect.js";
 import { DISTINCT_COL_BASE, LEVEL_TABLE, type PassPlan } from "./passPlan.js";
 import { quoteIdent, sqlNumber } from "./sql.js";
-import { readTimeTotals, timeValueSql, type TimeTotals } from "./timeColumns.js";
+import { readTimeTotals, timeTotalsFromValuesSql, timeValueSql, type TimeTotals } from "./timeColumns.js";
 
 /** col of the non-missing mask entries. */
 export const MASK_COL = -2;
@@ -112,10 +112,8 @@ export async function readKeyedTotals(engine: Engine, split: KeyedSplit): Promis
   }
   if (split.times.length > 0) {
     // the same expressions as the aggregates (engine/timeColumns), over distinct texts weighted by rows
-    const notWhole = (k: string, unit: string) => `coalesce(sum(rows) FILTER (WHERE v <> date_trunc('${unit}', v)), 0)::DOUBLE AS t${k}0`;
     const found = await engine.rows<Record<string, unknown> & { col: number }>(
-      `SELECT col, min(v)::VARCHAR AS tmin0, max(v)::VARCHAR AS tmax0, coalesce(sum(rows) FILTER (WHERE v IS NOT NULL), 0)::DOUBLE AS tn0,
-         ${notWhole("d", "day")}, ${notWhole("h", "hour")}, ${notWhole("m", "minute")}, ${notWhole("s", "second")}
+      `SELECT col, ${timeTotalsFromValuesSql("v", "rows", 0)}
        FROM (SELECT col, rows, ${timeValueSql("level")} AS v FROM ${LEVEL_TABLE}
              WHERE col <= ${sqlNumber(KEYED_TIME_BASE)} AND col > ${sqlNumber(KEYED_TIME_BASE - split.times.length)})
        GROUP BY col`, "reading the time ranges");

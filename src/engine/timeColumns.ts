@@ -52,6 +52,18 @@ export function timePassAggregates(t: string, i: number): string {
     ...FLAGS.map(([k]) => notWhole(k))].join(", ");
 }
 
+/**
+ * Time column i's totals (the columns timeTotalsSql gives) from distinct values instead of rows:
+ * `value` is a value's TIMESTAMP, `rows` how many rows hold it (engine/keyedExtras). The same
+ * flags as timeFlagSql, each weighted by its rows.
+ */
+export function timeTotalsFromValuesSql(value: string, rows: string, i: number): string {
+  const n = sqlNumber(i);
+  return [`min(${value})::VARCHAR AS tmin${n}`, `max(${value})::VARCHAR AS tmax${n}`,
+    `coalesce(sum(${rows}) FILTER (WHERE ${value} IS NOT NULL), 0)::DOUBLE AS tn${n}`,
+    ...FLAGS.map(([k, unit]) => `coalesce(sum(${rows}) FILTER (WHERE ${value} <> date_trunc('${unit}', ${value})), 0)::DOUBLE AS t${k}${n}`)].join(", ");
+}
+
 /** The same aggregates summed over the per-fold total rows (col = -1) of the level table. */
 export function timeTotalsSql(i: number): string {
   const n = sqlNumber(i);

@@ -11,7 +11,7 @@ import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
-import type { PassPlan } from "../../src/engine/aggregate.js";
+import { levelPassSql, type PassPlan } from "../../src/engine/aggregate.js";
 import { contentFingerprintOf } from "../../src/engine/contentFingerprint.js";
 import { withEngine } from "../../src/engine/db.js";
 import { rowHashFolds } from "../../src/engine/folds.js";
@@ -173,6 +173,15 @@ describe("extras as grouping keys (engine/keyedExtras) equal them as aggregates"
         countColumns: ["visit_no", "pets", "visit_at", "visit_day"], timeColumns: ["visit_at", "visit_day"], keyableTimeColumns: ["visit_day"],
         distinctColumns: ["pets"], target: { column: "no_show", kind: "binary" }, contentColumns: source.columns,
       };
+      // the keyed pass really carries them as keys: the mask and the date's text are grouping sets,
+      // and the date's seven aggregates are gone (so the equalities below compare two shapes)
+      const split = splitKeyed(plan);
+      expect([split.counts, split.times, split.rest.countColumns, split.rest.timeColumns]).toEqual([plan.countColumns, ["visit_day"], [], ["visit_at"]]);
+      const sql = levelPassSql(split.rest, split);
+      expect(sql).toContain("(__fold, __nm)");
+      expect(sql).toContain("(__tk0, __fold)");
+      expect(sql).not.toContain("__nn0");
+      expect(sql.match(/AS __tmin\d/g)).toHaveLength(1); // visit_at's only
       const unkeyed = await passIn<Row>(engine, plan, "unkeyed", COLUMNS);
       const keyed = await passIn<Row>(engine, plan, "grouping", COLUMNS);
       const keyedApart = await passIn<Row>(engine, plan, "apart", COLUMNS);
